@@ -1,0 +1,68 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import type { Logger } from 'pino';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config.js';
+import { apiNotFound, errorHandler } from './middleware/errorHandler.js';
+import { setSequelize } from './db/current.js';
+import { initModels } from './db/models/index.js';
+import { apiRouter } from './routes/index.js';
+
+export interface AppDeps {
+  config: Config;
+  sequelize: Sequelize;
+  log: Logger;
+}
+
+/** Builds the Express app (no listen), so tests can drive it with supertest. */
+export function createApp(deps: AppDeps): Express {
+  const { config, log } = deps;
+  initModels(deps.sequelize);
+  setSequelize(deps.sequelize);
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // PrimeVue writes its theme as <style> elements at run time.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          fontSrc: ["'self'", 'data:'],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          frameAncestors: ["'none'"],
+          formAction: ["'self'"],
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use('/api', express.json({ limit: config.JSON_LIMIT }));
+  app.use('/api/v1', apiRouter(deps));
+  app.use('/api', apiNotFound);
+
+  const clientDir = path.join(config.dataDir, 'client');
+  if (existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  } else {
+    app.get('/', (_req, res) => {
+      res.type('text/plain').send('Titrata API is running; the client has not been built (npm run build).');
+    });
+  }
+
+  app.use(errorHandler(log));
+  return app;
+}

@@ -1,0 +1,58 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { BaseError, ConnectionError, TimeoutError } from 'sequelize';
+import type { Logger } from 'pino';
+import { ErrorCode, InputError, type ErrorBody } from '../../shared/errors.js';
+import { AppError } from '../errors.js';
+
+/** 404 in the error shape for any /api path no router answered. */
+export const apiNotFound: RequestHandler = (req, res) => {
+  const body: ErrorBody = { error: { code: ErrorCode.notFound, message: `No route for ${req.method} ${req.originalUrl.split("?")[0]}.` } };
+  res.status(404).json(body);
+};
+
+function isDbDown(err: unknown): boolean {
+  if (err instanceof ConnectionError || err instanceof TimeoutError) return true;
+  if (err instanceof BaseError) {
+    const code = (err as { parent?: { code?: string } }).parent?.code ?? '';
+    return /ECONNREFUSED|ER_GET_CONNECTION_TIMEOUT|ER_CONNECTION_TIMEOUT|ER_SOCKET_UNEXPECTED_CLOSE|ECONNRESET|PROTOCOL_CONNECTION_LOST|ER_CLIENT_CLOSED_CONNECTION/.test(code);
+  }
+  const code = (err as { code?: string })?.code ?? '';
+  return /ECONNREFUSED|ER_GET_CONNECTION_TIMEOUT/.test(code);
+}
+
+/**
+ * The one error handler: AppErrors and shared InputErrors keep their status and fields,
+ * body-parser errors become 400/413, a lost database is 503, anything else is logged and
+ * masked as 500 with no internals.
+ */
+export function errorHandler(log: Logger): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    let status = 500;
+    let body: ErrorBody;
+    if (err instanceof AppError) {
+      status = err.status;
+      body = { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } };
+    } else if (err instanceof InputError) {
+      status = 400;
+      body = { error: { code: ErrorCode.validation, message: err.message, fields: err.fields } };
+    } else if (err?.type === 'entity.parse.failed') {
+      status = 400;
+      body = { error: { code: ErrorCode.validation, message: 'The request body is not valid JSON.', fields: { body: 'invalid JSON' } } };
+    } else if (err?.type === 'entity.too.large' || err?.code === 'LIMIT_FILE_SIZE') {
+      status = 413;
+      body = { error: { code: ErrorCode.payloadTooLarge, message: 'The request is larger than the limit.', fields: { body: 'too large' } } };
+    } else if (typeof err?.status === 'number' && err.status >= 400 && err.status < 500 && err.expose) {
+      status = err.status;
+      body = { error: { code: ErrorCode.validation, message: String(err.message) } };
+    } else if (isDbDown(err)) {
+      status = 503;
+      body = { error: { code: ErrorCode.unavailable, message: 'The database is not reachable; try again shortly.' } };
+      log.warn({ err: { message: err?.message }, path: req.path }, 'database unavailable');
+    } else {
+      log.error({ err, method: req.method, path: req.path }, 'unexpected error');
+      body = { error: { code: ErrorCode.internal, message: 'Something went wrong on our side. It has been logged.' } };
+    }
+    if (res.headersSent) return;
+    res.status(status).json(body);
+  };
+}

@@ -1,0 +1,20 @@
+import type { Router } from 'express';
+import type { AppDeps } from '../app.js';
+import { authenticate } from '../middleware/authenticate.js';
+import { auditRoutes } from './audit.js';
+import { authRoutes } from './auth.js';
+import { healthRoutes } from './health.js';
+import { routes } from './registry.js';
+import { siteRoutes } from './sites.js';
+import { userRoutes } from './users.js';
+
+/** Every /api/v1 route, declared through the one builder that records its rule. */
+export function apiRouter(deps: AppDeps): Router {
+  const r = routes(authenticate(deps.config));
+  healthRoutes(r, deps.sequelize);
+  authRoutes(r, deps.config);
+  userRoutes(r);
+  siteRoutes(r);
+  auditRoutes(r);
+  return r.router;
+}

@@ -1,0 +1,42 @@
+import type { Transaction } from 'sequelize';
+import { AuditEvent } from '../db/models/index.js';
+import type { Actor } from './actor.js';
+
+export interface AuditEntry {
+  action: string;
+  entity: string;
+  entityId?: string | number | null;
+  organizationId?: number | null;
+  before?: object | null;
+  after?: object | null;
+  reason?: string | null;
+}
+
+const HIDDEN = new Set(['passwordHash', 'tokenVersion']);
+const ASSOCIATIONS = new Set(['organization', 'facility', 'point', 'points', 'lab', 'clients', 'actor', 'sample', 'titrant']);
+
+/** A plain copy of a record for the audit log, without secrets or loaded associations. */
+export function snapshot(record: object | null | undefined): object | null {
+  if (!record) return null;
+  const withGet = record as { get?: (o: { plain: true }) => object };
+  const plain = typeof withGet.get === 'function' ? withGet.get({ plain: true }) : record;
+  return Object.fromEntries(Object.entries(plain).filter(([k]) => !HIDDEN.has(k) && !ASSOCIATIONS.has(k)));
+}
+
+/** Writes one audit event in the caller's transaction (who, what, before, after, why, from where). */
+export async function audit(actor: Actor | null, entry: AuditEntry, transaction?: Transaction): Promise<void> {
+  await AuditEvent.create(
+    {
+      actorUserId: actor?.id ?? null,
+      organizationId: entry.organizationId ?? actor?.organizationId ?? null,
+      action: entry.action,
+      entity: entry.entity,
+      entityId: entry.entityId === undefined || entry.entityId === null ? null : String(entry.entityId),
+      before: entry.before ?? null,
+      after: entry.after ?? null,
+      reason: entry.reason ?? null,
+      ip: actor?.ip ?? null,
+    },
+    { transaction },
+  );
+}

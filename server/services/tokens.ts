@@ -1,0 +1,31 @@
+import jwt from 'jsonwebtoken';
+import type { Config } from '../config.js';
+
+interface Claims {
+  sub: string;
+  ver: number;
+}
+
+/** Signs a session token (HS256) that names the user and their token version. */
+export function signToken(config: Config, userId: number, tokenVersion: number): { token: string; expiresAt: string } {
+  const token = jwt.sign({ ver: tokenVersion }, config.jwtSecret, {
+    subject: String(userId),
+    expiresIn: config.JWT_TTL as jwt.SignOptions['expiresIn'],
+    algorithm: 'HS256',
+    issuer: 'titrata',
+  });
+  const { exp } = jwt.decode(token) as { exp: number };
+  return { token, expiresAt: new Date(exp * 1000).toISOString() };
+}
+
+/** Verifies signature, algorithm, issuer and expiry; returns null for any bad token. */
+export function verifyToken(config: Config, token: string): { userId: number; tokenVersion: number } | null {
+  try {
+    const c = jwt.verify(token, config.jwtSecret, { algorithms: ['HS256'], issuer: 'titrata' }) as unknown as Claims;
+    const userId = Number(c.sub);
+    if (!Number.isInteger(userId)) return null;
+    return { userId, tokenVersion: Number(c.ver ?? 0) };
+  } catch {
+    return null;
+  }
+}
