@@ -55,7 +55,7 @@ export function createApp(deps: AppDeps): Express {
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
     app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
-      res.sendFile(path.join(clientDir, 'index.html'));
+      res.sendFile('index.html', { root: clientDir });
     });
   } else {
     app.get('/', (_req, res) => {

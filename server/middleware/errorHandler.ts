@@ -43,7 +43,8 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
       body = { error: { code: ErrorCode.payloadTooLarge, message: 'The request is larger than the limit.', fields: { body: 'too large' } } };
     } else if (typeof err?.status === 'number' && err.status >= 400 && err.status < 500 && err.expose) {
       status = err.status;
-      body = { error: { code: ErrorCode.validation, message: String(err.message) } };
+      const code = status === 404 ? ErrorCode.notFound : status === 413 ? ErrorCode.payloadTooLarge : ErrorCode.validation;
+      body = { error: { code, message: String(err.message) } };
     } else if (isDbDown(err)) {
       status = 503;
       body = { error: { code: ErrorCode.unavailable, message: 'The database is not reachable; try again shortly.' } };

@@ -1,11 +1,17 @@
 import { id } from '../../shared/schemas/common.js';
 import { parseOrThrow } from '../../shared/schemas/parse.js';
 import { userCreateSchema, userUpdateSchema } from '../../shared/schemas/users.js';
+import { ValidationError } from '../errors.js';
 import { actorOf } from '../services/actor.js';
 import { createUser, getUser, listUsers, resetPassword, updateUser } from '../services/users.js';
 import type { RouteBuilder } from './registry.js';
 
-const idOf = (v: unknown) => parseOrThrow(id, v, 'The id is not valid.');
+/** A path id, or 400 naming `id`. */
+const idOf = (v: unknown) => {
+  const parsed = id.safeParse(v);
+  if (!parsed.success) throw new ValidationError('The id in the path is not valid.', { id: 'must be a positive whole number' });
+  return parsed.data;
+};
 
 export function userRoutes(r: RouteBuilder) {
   r.get('/users', 'users.manage', async (req, res) => {

@@ -15,7 +15,7 @@ export interface ListParams {
  * checked against the fields a list allows, so no client string reaches SQL.
  */
 export function listParams(raw: unknown, sortable: Record<string, string | string[]>, defaultSort: string): ListParams {
-  const query = parseOrThrow(listQuerySchema, raw, 'The list query is not valid.');
+  const query = parseOrThrow(listQuerySchema, raw);
   const sort = query.sort ?? defaultSort;
   const desc = sort.startsWith('-');
   const key = desc ? sort.slice(1) : sort;

@@ -20,6 +20,29 @@ export const areas: Area[] = [
     label: 'Today',
     icon: 'pi pi-sun',
     path: '/today',
-    routes: [{ path: '/today', name: 'today', component: () => import('@/views/today/TodayView.vue') }],
+    routes: [{ path: 'today', name: 'today', component: () => import('@/views/today/TodayView.vue') }],
+  },
+  {
+    key: 'sites',
+    label: 'Sites',
+    icon: 'pi pi-map-marker',
+    path: '/sites',
+    capability: 'sites.read',
+    routes: [
+      { path: 'sites', name: 'sites', component: () => import('@/views/sites/SitesView.vue') },
+      { path: 'sites/facilities/:id', name: 'facility', component: () => import('@/views/sites/FacilityView.vue'), props: true },
+    ],
+  },
+  {
+    key: 'admin',
+    label: 'Admin',
+    icon: 'pi pi-cog',
+    path: '/admin',
+    capability: 'audit.read',
+    routes: [
+      { path: 'admin', redirect: '/admin/users' },
+      { path: 'admin/users', name: 'admin-users', component: () => import('@/views/admin/UsersView.vue'), meta: { capability: 'users.manage' } },
+      { path: 'admin/audit', name: 'admin-audit', component: () => import('@/views/admin/AuditView.vue'), meta: { capability: 'audit.read' } },
+    ],
   },
 ];

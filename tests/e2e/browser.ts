@@ -23,6 +23,7 @@ export async function openBrowser(): Promise<{ context: BrowserContext; page: Pa
     ],
   });
   const page = context.pages()[0] ?? (await context.newPage());
+  page.setDefaultTimeout(15_000);
   const consoleErrors: string[] = [];
   page.on('console', (msg) => {
     if (msg.type() === 'error') consoleErrors.push(msg.text());
