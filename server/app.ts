@@ -2,6 +2,8 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
+import rateLimit from 'express-rate-limit';
+import { ErrorCode } from '../shared/errors.js';
 import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
 import type { Config } from './config.js';
@@ -44,6 +46,18 @@ export function createApp(deps: AppDeps): Express {
         },
       },
       crossOriginEmbedderPolicy: false,
+    }),
+  );
+  app.use(
+    '/api',
+    rateLimit({
+      windowMs: 60_000,
+      limit: config.API_RATE_LIMIT,
+      standardHeaders: 'draft-7',
+      legacyHeaders: false,
+      handler: (_req, res) => {
+        res.status(429).json({ error: { code: ErrorCode.tooMany, message: 'Too many requests; slow down and try again in a minute.' } });
+      },
     }),
   );
   app.use('/api', express.json({ limit: config.JSON_LIMIT }));

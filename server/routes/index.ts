@@ -3,7 +3,9 @@ import type { AppDeps } from '../app.js';
 import { authenticate } from '../middleware/authenticate.js';
 import { auditRoutes } from './audit.js';
 import { authRoutes } from './auth.js';
+import { calcRoutes } from './calc.js';
 import { healthRoutes } from './health.js';
+import { openApiRoutes } from './openapi.js';
 import { routes } from './registry.js';
 import { siteRoutes } from './sites.js';
 import { userRoutes } from './users.js';
@@ -16,5 +18,7 @@ export function apiRouter(deps: AppDeps): Router {
   userRoutes(r);
   siteRoutes(r);
   auditRoutes(r);
+  calcRoutes(r);
+  openApiRoutes(r);
   return r.router;
 }

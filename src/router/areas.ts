@@ -34,6 +34,17 @@ export const areas: Area[] = [
     ],
   },
   {
+    key: 'tools',
+    label: 'Tools',
+    icon: 'pi pi-calculator',
+    path: '/tools',
+    capability: 'calc.use',
+    routes: [
+      { path: 'tools', name: 'tools', component: () => import('@/views/tools/ToolsView.vue') },
+      { path: 'tools/titration', name: 'tool-titration', component: () => import('@/views/tools/TitrationCalculatorView.vue') },
+    ],
+  },
+  {
     key: 'admin',
     label: 'Admin',
     icon: 'pi pi-cog',

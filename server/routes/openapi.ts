@@ -1,0 +1,100 @@
+import { z } from 'zod';
+import {
+  acidityRequestSchema,
+  alkalinityRequestSchema,
+  curveRequestSchema,
+  lsiRequestSchema,
+  speciationRequestSchema,
+} from '../../shared/schemas/calc.js';
+import { loginSchema } from '../../shared/schemas/auth.js';
+import { routeTable, type RouteBuilder } from './registry.js';
+
+const errorSchema = {
+  type: 'object',
+  required: ['error'],
+  properties: {
+    error: {
+      type: 'object',
+      required: ['code', 'message'],
+      properties: {
+        code: { type: 'string', examples: ['validation_failed'] },
+        message: { type: 'string' },
+        fields: { type: 'object', additionalProperties: { type: 'string' }, description: 'input name (dotted path) → reason' },
+      },
+    },
+  },
+};
+
+const calcDocs: Record<string, { schema: z.ZodType; summary: string; description: string }> = {
+  '/calc/alkalinity': {
+    schema: alkalinityRequestSchema,
+    summary: 'Alkalinity from endpoint volumes or a pH curve',
+    description:
+      'Phenolphthalein (pH 8.3) and total alkalinity in mg/L as CaCO3 (SM 2320 B: A × N × 50,000 / V), meq/L, hydroxide/carbonate/bicarbonate from P and T, equilibrium speciation when initialPh is given, the endpoints used and warnings. Volumes are cumulative from the start of the titration.',
+  },
+  '/calc/acidity': {
+    schema: acidityRequestSchema,
+    summary: 'Mineral (pH 3.7) and total (pH 8.3) acidity',
+    description: 'SM 2310 B: [(A × B) − (C × D)] × 50,000 / V, with the optional hydrogen-peroxide pretreatment term. A negative result is returned signed with a warning.',
+  },
+  '/calc/speciation': {
+    schema: speciationRequestSchema,
+    summary: 'Hydroxide, carbonate and bicarbonate from pH, temperature and total alkalinity',
+    description: 'Plummer and Busenberg (1982) K1, K2; Harned and Robinson Kw; Davies activity coefficients from ionic strength estimated from TDS or specific conductance.',
+  },
+  '/calc/curve': {
+    schema: curveRequestSchema,
+    summary: 'Model titration curve, true equivalence points and the endpoint error',
+    description: 'Charge-balance model of a carbonate water (or strong acid/base) titrated with strong acid or base, with dilution; returns pH against volume, the equivalence points and how far a fixed endpoint pH is from them in mL and mg/L as CaCO3.',
+  },
+  '/calc/lsi': {
+    schema: lsiRequestSchema,
+    summary: 'Langelier saturation index and Ryznar stability index',
+    description: 'pHs by the approximation in Roberge (2008) and by the exact SM 2330 form; LSI = pH − pHs, RSI = 2 pHs − pH.',
+  },
+};
+
+function jsonSchema(schema: z.ZodType) {
+  return z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' });
+}
+
+/** The OpenAPI 3.1 description: calculation routes in full, every other route listed with its access rule. */
+export function openApiDocument() {
+  const paths: Record<string, Record<string, unknown>> = {};
+  for (const r of routeTable.values()) {
+    const path = r.path.replace(/:(\w+)/g, '{$1}');
+    const calc = calcDocs[r.path];
+    const op: Record<string, unknown> = {
+      summary: calc?.summary ?? `${r.method.toUpperCase()} ${r.path}`,
+      ...(calc ? { description: calc.description } : {}),
+      security: r.rule === 'public' ? [] : [{ bearer: [] }],
+      'x-titrata-access': r.rule,
+      parameters: [...r.path.matchAll(/:(\w+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } })),
+      responses: {
+        '200': { description: 'OK' },
+        '400': { description: 'Bad input', content: { 'application/json': { schema: errorSchema } } },
+        ...(r.rule === 'public' ? {} : { '401': { description: 'Not signed in' }, '403': { description: 'Role not allowed' } }),
+      },
+    };
+    if (calc) op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(calc.schema) } } };
+    if (r.path === '/auth/login') op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(loginSchema) } } };
+    (paths[path] ??= {})[r.method] = op;
+  }
+  return {
+    openapi: '3.1.0',
+    info: {
+      title: 'Titrata API',
+      version: '1',
+      description: 'JSON, camelCase. Sign in with POST /api/v1/auth/login and send `Authorization: Bearer <token>`. Errors: {error: {code, message, fields}}. Lists take page, pageSize, sort and answer {items, total}.',
+    },
+    servers: [{ url: '/api/v1' }],
+    components: { securitySchemes: { bearer: { type: 'http', scheme: 'bearer', bearerFormat: 'JWT' } } },
+    paths,
+  };
+}
+
+export function openApiRoutes(r: RouteBuilder) {
+  r.get('/openapi.json', 'public', (_req, res) => {
+    res.json(openApiDocument());
+  });
+}
