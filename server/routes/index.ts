@@ -6,6 +6,7 @@ import { authRoutes } from './auth.js';
 import { calcRoutes } from './calc.js';
 import { healthRoutes } from './health.js';
 import { openApiRoutes } from './openapi.js';
+import { permitRoutes } from './permits.js';
 import { routes } from './registry.js';
 import { siteRoutes } from './sites.js';
 import { userRoutes } from './users.js';
@@ -19,6 +20,7 @@ export function apiRouter(deps: AppDeps): Router {
   siteRoutes(r);
   auditRoutes(r);
   calcRoutes(r);
+  permitRoutes(r);
   openApiRoutes(r);
   return r.router;
 }

@@ -2,6 +2,9 @@ import { AuditEvent } from './AuditEvent.js';
 import { Facility } from './Facility.js';
 import { MonitoringPoint } from './MonitoringPoint.js';
 import { Organization } from './Organization.js';
+import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
+import { Permit } from './Permit.js';
+import { PermitLimit } from './PermitLimit.js';
 import { User } from './User.js';
 
 /** Every association in one place. */
@@ -14,4 +17,9 @@ export function associate() {
   MonitoringPoint.belongsTo(Facility, { as: 'facility', foreignKey: 'facilityId' });
   Facility.hasMany(MonitoringPoint, { as: 'points', foreignKey: 'facilityId' });
   AuditEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorUserId' });
+  Permit.belongsTo(Facility, { as: 'facility', foreignKey: 'facilityId' });
+  Permit.hasMany(PermitLimit, { as: 'limits', foreignKey: 'permitId' });
+  PermitLimit.belongsTo(Permit, { as: 'permit', foreignKey: 'permitId' });
+  PermitLimit.belongsTo(MonitoringPoint, { as: 'point', foreignKey: 'pointId' });
+  OutboxMessage.hasMany(OutboxAttachment, { as: 'attachments', foreignKey: 'messageId' });
 }
