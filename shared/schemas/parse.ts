@@ -1,5 +1,5 @@
 import type { z } from 'zod';
-import { InputError } from '../errors';
+import { InputError } from '../errors.js';
 
 /** Dotted field path of a zod issue (`readings.3.pH`); issues on the whole body use `body`. */
 export function issuePath(path: ReadonlyArray<PropertyKey>): string {

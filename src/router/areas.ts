@@ -34,6 +34,17 @@ export const areas: Area[] = [
     ],
   },
   {
+    key: 'permits',
+    label: 'Permits',
+    icon: 'pi pi-file',
+    path: '/permits',
+    capability: 'permits.read',
+    routes: [
+      { path: 'permits', name: 'permits', component: () => import('@/views/permits/PermitsView.vue') },
+      { path: 'permits/:id', name: 'permit', component: () => import('@/views/permits/PermitView.vue'), props: true },
+    ],
+  },
+  {
     key: 'tools',
     label: 'Tools',
     icon: 'pi pi-calculator',
