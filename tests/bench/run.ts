@@ -1,0 +1,69 @@
+/**
+ * `npm run bench`: every benchmark, results in tests/bench/results.json and
+ * tests/bench/RESULTS.md with the machine they ran on. Targets are stated beside each row;
+ * benchmarks report, they do not fail the build.
+ */
+import { writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { startInstance, stopInstance } from '../../server/bin/mariadb.js';
+import { testDbDir, testDbPort } from '../setup/env.js';
+import { calcRates, sixtyReadings } from './calc.js';
+import { benchDir, load, withBenchServer, type HttpResult } from './http.js';
+
+async function main() {
+  const machine = `${os.cpus().length} × ${os.cpus()[0]?.model ?? 'CPU'}, ${Math.round(os.totalmem() / 2 ** 30)} GiB, Node ${process.version}, ${os.platform()} ${os.release()}`;
+  console.log(`machine: ${machine}`);
+  const rates = calcRates();
+  for (const r of rates) console.log(`${r.name}: ${r.perSecond.toLocaleString()} /s`);
+
+  const instance = await startInstance({ dir: testDbDir, port: testDbPort });
+  const http: HttpResult[] = [];
+  try {
+    await withBenchServer(async (base, token) => {
+      const t = await token('analyst@marrowfield.example');
+      const readings = sixtyReadings();
+      for (const connections of [1, 10, 50]) {
+        http.push(await load('POST /calc/alkalinity (endpoint volumes)', { url: `${base}/api/v1/calc/alkalinity`, method: 'POST', token: t, connections, duration: 4, body: { sampleVolumeMl: 100, titrantNormality: 0.02, volumeToPh83Ml: 2.1, volumeToTotalEndpointMl: 12.4 } }));
+        http.push(await load('POST /calc/alkalinity (60 readings)', { url: `${base}/api/v1/calc/alkalinity`, method: 'POST', token: t, connections, duration: 4, body: { sampleVolumeMl: 100, titrantNormality: 0.02, readings } }));
+        http.push(await load('POST /auth/login', { url: `${base}/api/v1/auth/login`, method: 'POST', connections, duration: 4, body: { email: 'analyst@marrowfield.example', password: 'titrata-demo' } }));
+      }
+    });
+  } finally {
+    if (instance.startedHere) await stopInstance(instance);
+  }
+  for (const h of http) console.log(`${h.name} @${h.connections}: ${h.throughputPerSec}/s p50 ${h.p50Ms} ms p95 ${h.p95Ms} ms p99 ${h.p99Ms} ms non-2xx ${h.non2xx}`);
+
+  const ranAt = new Date().toISOString();
+  writeFileSync(path.join(benchDir, 'results.json'), JSON.stringify({ ranAt, machine, rates, http }, null, 2) + '\n');
+  const md = [
+    '# Benchmark results',
+    '',
+    `Ran ${ranAt} on ${machine}. Rerun with \`npm run bench\`.`,
+    '',
+    '## Calculations (shared engine, one core)',
+    '',
+    '| calculation | per second |',
+    '| --- | ---: |',
+    ...rates.map((r) => `| ${r.name} | ${r.perSecond.toLocaleString('en-US')} |`),
+    '',
+    '## HTTP (autocannon, app + MariaDB on this machine)',
+    '',
+    '| route | connections | requests/s | p50 ms | p95 ms | p99 ms | non-2xx |',
+    '| --- | ---: | ---: | ---: | ---: | ---: | ---: |',
+    ...http.map((h) => `| ${h.name} | ${h.connections} | ${h.throughputPerSec} | ${h.p50Ms} | ${h.p95Ms} | ${h.p99Ms} | ${h.non2xx} |`),
+    '',
+    'Sign-in is deliberately slow: bcrypt with cost 10 costs tens of milliseconds of CPU per attempt.',
+    '',
+  ].join('\n');
+  writeFileSync(path.join(benchDir, 'RESULTS.md'), md);
+  console.log(`wrote ${path.join('tests/bench', 'RESULTS.md')}`);
+}
+
+main().then(
+  () => process.exit(0),
+  (err) => {
+    console.error(err);
+    process.exit(1);
+  },
+);
