@@ -11,6 +11,7 @@ import { apiNotFound, errorHandler } from './middleware/errorHandler.js';
 import { setSequelize } from './db/current.js';
 import { initModels } from './db/models/index.js';
 import { apiRouter } from './routes/index.js';
+import { setComplianceConfig } from './services/compliance.js';
 
 export interface AppDeps {
   config: Config;
@@ -23,6 +24,7 @@ export function createApp(deps: AppDeps): Express {
   const { config, log } = deps;
   initModels(deps.sequelize);
   setSequelize(deps.sequelize);
+  setComplianceConfig(deps.config);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');

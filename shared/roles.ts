@@ -38,6 +38,8 @@ export const CAPABILITIES = {
   'titrations.approve': ['analyst', 'lab_admin'],
   'lab.qc': ['analyst', 'lab_admin'],
   'lab.qc.read': ['analyst', 'lab_admin', 'operator'],
+  /** pH meter calibrations are recorded by whoever runs the meter, at the plant or in the lab. */
+  'calibrations.write': ['analyst', 'lab_admin', 'operator'],
   'permits.read': ['lab_admin', 'analyst', 'operator', 'compliance_officer'],
   'permits.manage': ['compliance_officer', 'lab_admin'],
   'compliance.read': ['lab_admin', 'analyst', 'operator', 'compliance_officer'],

@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express';
 import type { Config } from '../config.js';
 import { Organization, User } from '../db/models/index.js';
 import { UnauthenticatedError } from '../errors.js';
+import { actorFor } from '../services/actor.js';
 import { verifyToken } from '../services/tokens.js';
 
 export type AuthMiddleware = RequestHandler;
@@ -20,23 +21,7 @@ export function authenticate(config: Config): AuthMiddleware {
     if (!user || !user.active || user.tokenVersion !== claims.tokenVersion || !user.organization?.active) {
       return next(new UnauthenticatedError('Your session is not valid or has expired. Sign in again.'));
     }
-    const org = user.organization;
-    const labId = org.kind === 'laboratory' ? org.id : (org.labId ?? org.id);
-    let visibleOrgIds = [org.id];
-    if (org.kind === 'laboratory') {
-      const clients = await Organization.findAll({ where: { labId: org.id }, attributes: ['id'] });
-      visibleOrgIds = [org.id, ...clients.map((c) => c.id)];
-    }
-    req.actor = {
-      user,
-      id: user.id,
-      role: user.role,
-      organizationId: org.id,
-      orgKind: org.kind,
-      labId,
-      visibleOrgIds,
-      ip: req.ip ?? null,
-    };
+    req.actor = await actorFor(user, req.ip ?? null);
     next();
   };
 }

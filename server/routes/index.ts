@@ -4,10 +4,15 @@ import { authenticate } from '../middleware/authenticate.js';
 import { auditRoutes } from './audit.js';
 import { authRoutes } from './auth.js';
 import { calcRoutes } from './calc.js';
+import { complianceRoutes } from './compliance.js';
 import { healthRoutes } from './health.js';
 import { openApiRoutes } from './openapi.js';
 import { permitRoutes } from './permits.js';
+import { labQcRoutes } from './labQc.js';
 import { routes } from './registry.js';
+import { sampleRoutes } from './samples.js';
+import { titrationRoutes } from './titrations.js';
+import { toolRoutes } from './tools.js';
 import { siteRoutes } from './sites.js';
 import { userRoutes } from './users.js';
 
@@ -20,7 +25,12 @@ export function apiRouter(deps: AppDeps): Router {
   siteRoutes(r);
   auditRoutes(r);
   calcRoutes(r);
+  toolRoutes(r);
   permitRoutes(r);
+  complianceRoutes(r);
   openApiRoutes(r);
+  sampleRoutes(r);
+  titrationRoutes(r, deps.config);
+  labQcRoutes(r);
   return r.router;
 }

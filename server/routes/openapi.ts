@@ -7,6 +7,14 @@ import {
   speciationRequestSchema,
 } from '../../shared/schemas/calc.js';
 import { loginSchema } from '../../shared/schemas/auth.js';
+import {
+  alkalinityDoseRequestSchema,
+  ccppRequestSchema,
+  digesterRequestSchema,
+  endpointErrorRequestSchema,
+  nitrificationRequestSchema,
+  tocRemovalRequestSchema,
+} from '../../shared/schemas/tools.js';
 import { routeTable, type RouteBuilder } from './registry.js';
 
 const errorSchema = {
@@ -51,6 +59,36 @@ const calcDocs: Record<string, { schema: z.ZodType; summary: string; description
     schema: lsiRequestSchema,
     summary: 'Langelier saturation index and Ryznar stability index',
     description: 'pHs by the approximation in Roberge (2008) and by the exact SM 2330 form; LSI = pH − pHs, RSI = 2 pHs − pH.',
+  },
+  '/calc/ccpp': {
+    schema: ccppRequestSchema,
+    summary: 'Calcium carbonate precipitation potential',
+    description: 'mg/L as CaCO3 that would precipitate (positive) or dissolve (negative) to reach calcite saturation; closed system, ionic strength held constant, bisection (SM 2330; DIN 38404-10). Returns the final pH, hardness, alkalinity and C_T. Temperature in °C or °F.',
+  },
+  '/calc/toc-removal': {
+    schema: tocRemovalRequestSchema,
+    summary: 'Enhanced coagulation: Step 1 TOC removal required and achieved',
+    description: 'Required % TOC removal from source TOC and alkalinity (40 CFR 141.135(b)(2); none at or below 2.0 mg/L TOC; softening uses the > 120 column), the removal achieved from source and treated TOC and the removal ratio.',
+  },
+  '/calc/nitrification': {
+    schema: nitrificationRequestSchema,
+    summary: 'Nitrification alkalinity budget',
+    description: 'Residual alkalinity = influent − 7.14 × NH4-N nitrified + 3.57 × NO3-N denitrified (mg/L as CaCO3), against a target (default 50), the shortfall and the chemical to make it up; daily loads in kg/d and lb/d when a flow (MGD or m³/d) is given.',
+  },
+  '/calc/alkalinity-dose': {
+    schema: alkalinityDoseRequestSchema,
+    summary: 'Chemical dose to raise alkalinity',
+    description: 'Lime, quicklime, caustic soda, soda ash, sodium bicarbonate or magnesium hydroxide: mg/L = ΔAlk × equivalent weight ÷ 50.04, ÷ purity; kg/d and lb/d (8.34) at a flow in MGD or m³/d; handling cautions.',
+  },
+  '/calc/digester': {
+    schema: digesterRequestSchema,
+    summary: 'Anaerobic digester volatile acids / alkalinity ratio',
+    description: 'VA (mg/L as acetic acid) ÷ alkalinity (mg/L as CaCO3) with guidance bands (≤ 0.25 stable, > 0.3 act; common practice), the trend over earlier ratios and the alkalinity for a target ratio.',
+  },
+  '/calc/endpoint-error': {
+    schema: endpointErrorRequestSchema,
+    summary: 'Curve insight: endpoint error of fixed endpoints against the true equivalence points',
+    description: 'Model curve of a carbonate water titrated with strong acid; the true equivalence points, the error of the fixed P and T endpoints in mL, mg/L as CaCO3, meq/L and %, whether each lies on the steep part of the curve (|dpH/dV| ≥ 75 % of its peak), the SM 2320 B Table 2320:I recommended endpoint and the indicator colour-change ranges.',
   },
 };
 

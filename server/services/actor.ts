@@ -1,6 +1,6 @@
 import type { Request } from 'express';
 import type { Role } from '../../shared/roles.js';
-import type { User } from '../db/models/index.js';
+import { Organization, type User } from '../db/models/index.js';
 import { UnauthenticatedError } from '../errors.js';
 
 /** Who is calling: the user, their role and the organisations they may see. */
@@ -27,4 +27,20 @@ declare module 'express-serve-static-core' {
 export function actorOf(req: Request): Actor {
   if (!req.actor) throw new UnauthenticatedError();
   return req.actor;
+}
+
+/**
+ * The actor for a user whose organisation is loaded: the lab sees itself and its clients, a
+ * utility sees itself. Used by authenticate and by the demo seed, which acts as demo users.
+ */
+export async function actorFor(user: User, ip: string | null = null): Promise<Actor> {
+  const org = user.organization;
+  if (!org) throw new UnauthenticatedError();
+  const labId = org.kind === 'laboratory' ? org.id : (org.labId ?? org.id);
+  let visibleOrgIds = [org.id];
+  if (org.kind === 'laboratory') {
+    const clients = await Organization.findAll({ where: { labId: org.id }, attributes: ['id'] });
+    visibleOrgIds = [org.id, ...clients.map((c) => c.id)];
+  }
+  return { user, id: user.id, role: user.role, organizationId: org.id, orgKind: org.kind, labId, visibleOrgIds, ip };
 }

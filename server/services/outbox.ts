@@ -42,6 +42,14 @@ export async function enqueueMail(mail: OutgoingMail, transaction?: Transaction)
   return msg;
 }
 
+type DeliveredHook = (msg: OutboxMessage) => Promise<void>;
+const deliveredHooks: DeliveredHook[] = [];
+
+/** Registers work to do once a message has been accepted by the SMTP server (e.g. mark a notice delivered). */
+export function onDelivered(hook: DeliveredHook) {
+  deliveredHooks.push(hook);
+}
+
 /** Retry delay after `attempts` failures: 2, 4, 8 … seconds, at most five minutes. */
 export function backoffMs(attempts: number): number {
   return Math.min(2 ** attempts * 1000, 5 * 60_000);
@@ -103,6 +111,7 @@ export async function deliverDue(config: Config, mailer: Transporter, limit = 20
       });
       await msg.update({ status: 'sent', sentAt: new Date(), messageId: info.messageId ?? null, lockedUntil: null, lastError: null, attempts: msg.attempts + 1 });
       sent++;
+      for (const hook of deliveredHooks) await hook(msg).catch(() => undefined);
     } catch (err) {
       const attempts = msg.attempts + 1;
       await msg.update({

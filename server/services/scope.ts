@@ -22,3 +22,16 @@ export function inScope(actor: Actor, orgId: number | null | undefined): boolean
 export function assertInScope(actor: Actor, orgId: number | null | undefined, what: string): void {
   if (!inScope(actor, orgId)) throw new NotFoundError(what);
 }
+
+/**
+ * Records a laboratory keeps for the clients it serves (titrant lots): visible to their own
+ * organisation, to its lab, and to the lab's clients, which titrate with the lab's lots.
+ */
+export function sharedScope(actor: Actor, column = 'organizationId'): WhereOptions {
+  return { [column]: { [Op.in]: [...new Set([...actor.visibleOrgIds, actor.labId])] } };
+}
+
+/** 404 unless the actor may see a shared record of organisation `orgId` (see sharedScope). */
+export function assertInSharedScope(actor: Actor, orgId: number | null | undefined, what: string): void {
+  if (!(inScope(actor, orgId) || (orgId !== null && orgId !== undefined && orgId === actor.labId))) throw new NotFoundError(what);
+}

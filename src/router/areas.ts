@@ -23,6 +23,26 @@ export const areas: Area[] = [
     routes: [{ path: 'today', name: 'today', component: () => import('@/views/today/TodayView.vue') }],
   },
   {
+    key: 'bench',
+    label: 'Bench',
+    icon: 'pi pi-book',
+    path: '/bench',
+    capability: 'samples.read',
+    routes: [
+      { path: 'bench', name: 'bench', component: () => import('@/views/bench/BenchView.vue') },
+      { path: 'bench/samples/:id', name: 'sample', component: () => import('@/views/bench/SampleView.vue'), props: true },
+      { path: 'bench/titrations/:id/curve', name: 'curve', component: () => import('@/views/bench/CurveView.vue'), props: true },
+    ],
+  },
+  {
+    key: 'review',
+    label: 'Review',
+    icon: 'pi pi-check-square',
+    path: '/review',
+    capability: 'titrations.approve',
+    routes: [{ path: 'review', name: 'review', component: () => import('@/views/review/ReviewView.vue') }],
+  },
+  {
     key: 'sites',
     label: 'Sites',
     icon: 'pi pi-map-marker',
@@ -45,6 +65,14 @@ export const areas: Area[] = [
     ],
   },
   {
+    key: 'compliance',
+    label: 'Compliance',
+    icon: 'pi pi-shield',
+    path: '/compliance',
+    capability: 'compliance.read',
+    routes: [{ path: 'compliance', name: 'compliance', component: () => import('@/views/compliance/ComplianceView.vue') }],
+  },
+  {
     key: 'tools',
     label: 'Tools',
     icon: 'pi pi-calculator',
@@ -53,6 +81,12 @@ export const areas: Area[] = [
     routes: [
       { path: 'tools', name: 'tools', component: () => import('@/views/tools/ToolsView.vue') },
       { path: 'tools/titration', name: 'tool-titration', component: () => import('@/views/tools/TitrationCalculatorView.vue') },
+      { path: 'tools/corrosion', name: 'tool-corrosion', component: () => import('@/views/tools/CorrosionIndicesView.vue') },
+      { path: 'tools/enhanced-coagulation', name: 'tool-enhanced-coagulation', component: () => import('@/views/tools/EnhancedCoagulationView.vue') },
+      { path: 'tools/nitrification', name: 'tool-nitrification', component: () => import('@/views/tools/NitrificationBudgetView.vue') },
+      { path: 'tools/alkalinity-dose', name: 'tool-alkalinity-dose', component: () => import('@/views/tools/AlkalinityDoseView.vue') },
+      { path: 'tools/digester', name: 'tool-digester', component: () => import('@/views/tools/DigesterHealthView.vue') },
+      { path: 'tools/curve-insight', name: 'tool-curve-insight', component: () => import('@/views/tools/CurveInsightView.vue') },
     ],
   },
   {

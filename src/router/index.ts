@@ -7,6 +7,7 @@ export const router = createRouter({
   history: createWebHistory(),
   routes: [
     { path: '/sign-in', name: 'sign-in', component: () => import('@/views/auth/SignInView.vue'), meta: { public: true } },
+    { path: '/public/notices/:token', name: 'public-notice', component: () => import('@/views/public/PublicNoticeView.vue'), props: true, meta: { public: true } },
     {
       path: '/',
       component: AppShell,

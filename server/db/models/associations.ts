@@ -1,11 +1,19 @@
 import { AuditEvent } from './AuditEvent.js';
 import { Facility } from './Facility.js';
 import { MonitoringPoint } from './MonitoringPoint.js';
+import { Exceedance, Notice } from './Exceedance.js';
 import { Organization } from './Organization.js';
 import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
 import { Permit } from './Permit.js';
 import { PermitLimit } from './PermitLimit.js';
 import { User } from './User.js';
+import { MeterCalibration } from './MeterCalibration.js';
+import { QcBatch } from './QcBatch.js';
+import { Sample } from './Sample.js';
+import { Standardization } from './Standardization.js';
+import { Titrant } from './Titrant.js';
+import { Titration } from './Titration.js';
+import { TitrationReading } from './TitrationReading.js';
 
 /** Every association in one place. */
 export function associate() {
@@ -22,4 +30,27 @@ export function associate() {
   PermitLimit.belongsTo(Permit, { as: 'permit', foreignKey: 'permitId' });
   PermitLimit.belongsTo(MonitoringPoint, { as: 'point', foreignKey: 'pointId' });
   OutboxMessage.hasMany(OutboxAttachment, { as: 'attachments', foreignKey: 'messageId' });
+  Exceedance.belongsTo(Facility, { as: 'facility', foreignKey: 'facilityId' });
+  Exceedance.belongsTo(MonitoringPoint, { as: 'point', foreignKey: 'pointId' });
+  Exceedance.belongsTo(Permit, { as: 'permit', foreignKey: 'permitId' });
+  Exceedance.belongsTo(PermitLimit, { as: 'limit', foreignKey: 'limitId' });
+  Exceedance.hasMany(Notice, { as: 'notices', foreignKey: 'exceedanceId' });
+  Notice.belongsTo(Exceedance, { as: 'exceedance', foreignKey: 'exceedanceId' });
+  Notice.belongsTo(OutboxMessage, { as: 'outbox', foreignKey: 'outboxMessageId' });
+
+  // Bench
+  Titrant.hasMany(Standardization, { as: 'standardizations', foreignKey: 'titrantId' });
+  Standardization.belongsTo(Titrant, { as: 'titrant', foreignKey: 'titrantId' });
+  Standardization.belongsTo(User, { as: 'standardizedBy', foreignKey: 'standardizedById' });
+  MeterCalibration.belongsTo(User, { as: 'calibratedBy', foreignKey: 'calibratedById' });
+  Sample.belongsTo(MonitoringPoint, { as: 'point', foreignKey: 'pointId' });
+  Sample.belongsTo(Facility, { as: 'facility', foreignKey: 'facilityId' });
+  Sample.belongsTo(User, { as: 'createdBy', foreignKey: 'createdById' });
+  Sample.hasMany(Titration, { as: 'titrations', foreignKey: 'sampleId' });
+  Titration.belongsTo(Sample, { as: 'sample', foreignKey: 'sampleId' });
+  Titration.belongsTo(Titrant, { as: 'titrant', foreignKey: 'titrantId' });
+  Titration.hasMany(TitrationReading, { as: 'readings', foreignKey: 'titrationId' });
+  for (const as of ['analyst', 'submittedBy', 'approvedBy', 'returnedBy', 'createdBy'] as const) Titration.belongsTo(User, { as, foreignKey: `${as}Id` });
+  QcBatch.belongsTo(User, { as: 'analyst', foreignKey: 'analystId' });
+  QcBatch.hasMany(Titration, { as: 'titrations', foreignKey: 'qcBatchId' });
 }

@@ -2,14 +2,24 @@ import type { Sequelize } from 'sequelize';
 import { AuditEvent } from './AuditEvent.js';
 import { Facility } from './Facility.js';
 import { MonitoringPoint } from './MonitoringPoint.js';
+import { Exceedance, Notice } from './Exceedance.js';
 import { Organization } from './Organization.js';
 import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
 import { Permit } from './Permit.js';
 import { PermitLimit } from './PermitLimit.js';
 import { User } from './User.js';
+import { MeterCalibration } from './MeterCalibration.js';
+import { QcBatch } from './QcBatch.js';
+import { Sample } from './Sample.js';
+import { Standardization } from './Standardization.js';
+import { Titrant } from './Titrant.js';
+import { Titration } from './Titration.js';
+import { TitrationReading } from './TitrationReading.js';
 import { associate } from './associations.js';
 
+export { Exceedance, Notice };
 export { AuditEvent, Facility, MonitoringPoint, Organization, OutboxAttachment, OutboxMessage, Permit, PermitLimit, User };
+export { MeterCalibration, QcBatch, Sample, Standardization, Titrant, Titration, TitrationReading };
 
 const initialised = new WeakSet<Sequelize>();
 
@@ -26,8 +36,11 @@ export function initModels(sequelize: Sequelize) {
     PermitLimit,
     OutboxMessage,
     OutboxAttachment,
+    Exceedance,
+    Notice,
   ];
   for (const m of models) m.initModel(sequelize);
+  for (const m of [Titrant, Standardization, MeterCalibration, Sample, QcBatch, Titration, TitrationReading]) m.initModel(sequelize);
   associate();
   initialised.add(sequelize);
 }

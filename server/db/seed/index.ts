@@ -1,11 +1,15 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config.js';
 import { initModels } from '../models/index.js';
+import { seedBench } from './bench.js';
 import { seedIdentity } from './identity.js';
+import { seedCompliance, seedPermits } from './permits.js';
 
 export interface SeedStep {
   key: string;
   run(ctx: { sequelize: Sequelize; config: Config; transaction: Transaction }): Promise<void>;
+  /** The step opens its own transactions (it must see what earlier steps committed). */
+  ownTransactions?: boolean;
 }
 
 /** Demo steps in order; later areas append theirs. Each runs once, in its own transaction. */
@@ -18,6 +22,9 @@ const steps: SeedStep[] = [
     },
   },
   { key: 'identity', run: seedIdentity },
+  { key: 'bench', run: seedBench },
+  { key: 'permits', run: seedPermits },
+  { key: 'compliance', run: seedCompliance, ownTransactions: true },
 ];
 
 /**
@@ -34,8 +41,9 @@ export async function seedDemo(sequelize: Sequelize, config: Config): Promise<bo
   let loaded = false;
   for (const step of steps) {
     if (done.has(`demo.${step.key}`)) continue;
+    if (step.ownTransactions) await step.run({ sequelize, config, transaction: undefined as unknown as Transaction });
     await sequelize.transaction(async (transaction) => {
-      await step.run({ sequelize, config, transaction });
+      if (!step.ownTransactions) await step.run({ sequelize, config, transaction });
       const now = new Date();
       await sequelize.getQueryInterface().bulkInsert('lab_settings', [{ key: `demo.${step.key}`, value: JSON.stringify(now.toISOString()), created_at: now, updated_at: now }], { transaction });
     });

@@ -1,0 +1,31 @@
+import { parseOrThrow } from '../../shared/schemas/parse.js';
+import { sampleCreateSchema, sampleUpdateSchema, titrationCreateSchema } from '../../shared/schemas/bench.js';
+import { actorOf } from '../services/actor.js';
+import * as samples from '../services/samples.js';
+import * as titrations from '../services/titrations.js';
+import type { RouteBuilder } from './registry.js';
+import { idOf } from './users.js';
+
+type Q = Record<string, unknown>;
+
+/** Samples and the titrations logged against them (Bench). */
+export function sampleRoutes(r: RouteBuilder) {
+  r.get('/samples', 'samples.read', async (req, res) => {
+    res.json(await samples.listSamples(actorOf(req), req.query as Q));
+  });
+  r.post('/samples', 'samples.write', async (req, res) => {
+    res.status(201).json(await samples.createSample(actorOf(req), parseOrThrow(sampleCreateSchema, req.body)));
+  });
+  r.get('/samples/:id', 'samples.read', async (req, res) => {
+    res.json(await samples.getSample(actorOf(req), idOf(req.params.id)));
+  });
+  r.patch('/samples/:id', 'samples.write', async (req, res) => {
+    res.json(await samples.updateSample(actorOf(req), idOf(req.params.id), parseOrThrow(sampleUpdateSchema, req.body)));
+  });
+  r.get('/samples/:id/titrations', 'samples.read', async (req, res) => {
+    res.json(await titrations.listSampleTitrations(actorOf(req), idOf(req.params.id), req.query as Q));
+  });
+  r.post('/samples/:id/titrations', 'samples.write', async (req, res) => {
+    res.status(201).json(await titrations.createTitration(actorOf(req), idOf(req.params.id), parseOrThrow(titrationCreateSchema, req.body)));
+  });
+}

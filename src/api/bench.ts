@@ -1,0 +1,45 @@
+import type { Page } from '@shared/schemas/common';
+import type { ReviewItem, SampleView, TitrantView, TitrationDetail, TitrationView } from '@shared/types/bench';
+import { api } from './client';
+
+export interface AuditEntry {
+  id: number;
+  createdAt: string;
+  action: string;
+  titrationId: number;
+  actor: { id: number; name: string; email: string } | null;
+  before: unknown;
+  after: unknown;
+  reason?: string | null;
+}
+
+type Q = Record<string, unknown>;
+const q = (query: Q) => query as Record<string, string | number | boolean | undefined>;
+
+/** Samples, titrations and their workflow, the review queue, and the titrant lots they use. */
+export const benchApi = {
+  samples: (query: Q) => api.get<Page<SampleView>>('/samples', q(query)),
+  sample: (id: number) => api.get<SampleView>(`/samples/${id}`),
+  createSample: (body: object) => api.post<SampleView>('/samples', body),
+  updateSample: (id: number, body: object) => api.patch<SampleView>(`/samples/${id}`, body),
+
+  createTitration: (sampleId: number, body: object) => api.post<TitrationView>(`/samples/${sampleId}/titrations`, body),
+  titration: (id: number) => api.get<TitrationDetail>(`/titrations/${id}`),
+  updateTitration: (id: number, body: object) => api.patch<TitrationView>(`/titrations/${id}`, body),
+  submit: (id: number, version: number) => api.post<TitrationView>(`/titrations/${id}/submit`, { version }),
+  approve: (id: number, version: number) => api.post<TitrationView>(`/titrations/${id}/approve`, { version }),
+  returnTitration: (id: number, version: number, comment: string) => api.post<TitrationView>(`/titrations/${id}/return`, { version, comment }),
+  amend: (id: number, body: object) => api.post<TitrationView>(`/titrations/${id}/amend`, body),
+  uploadReadings: (id: number, file: File, version: number) => {
+    const form = new FormData();
+    form.append('version', String(version));
+    form.append('file', file);
+    return api.upload<TitrationView>(`/titrations/${id}/readings`, form);
+  },
+  audit: (id: number) => api.get<Page<AuditEntry>>(`/titrations/${id}/audit`, { pageSize: 200 }),
+
+  review: (query: Q) => api.get<Page<ReviewItem>>('/review', q(query)),
+  bulkApprove: (items: { id: number; version: number }[]) => api.post<{ approved: number[]; items: TitrationView[] }>('/review/approve', { items }),
+
+  titrants: (query: Q) => api.get<Page<TitrantView>>('/titrants', q(query)),
+};

@@ -1,0 +1,98 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import { openBrowser, screenshot } from './browser.js';
+import { signIn, signOut } from './helpers.js';
+
+const baseUrl = inject('baseUrl');
+let b: Awaited<ReturnType<typeof openBrowser>>;
+beforeAll(async () => {
+  b = await openBrowser();
+});
+afterAll(() => b?.close());
+
+// The synthetic curve of tests/api/calc.test.ts (100 mL sample).
+const READINGS = [
+  'volume_ml\tph',
+  '0\t9.20', '0.25\t9.05', '0.50\t8.85', '0.75\t8.52', '1.00\t8.10', '1.50\t7.58', '2.00\t7.31', '4.00\t6.79', '6.00\t6.45', '8.00\t6.15',
+  '10.00\t5.79', '11.00\t5.53', '11.50\t5.34', '12.00\t5.05', '12.25\t4.82', '12.50\t4.52', '12.75\t4.22', '13.00\t4.01', '13.50\t3.74', '14.00\t3.57', '15.00\t3.36', '16.00\t3.22', '17.00\t3.11',
+].join('\n');
+// Fixed-pH interpolation: pH 8.3 at 0.75 + 0.25 × 0.22/0.42 mL, pH 4.5 at 12.50 + 0.25 × 0.02/0.30 mL.
+const P_ML = 0.75 + (0.25 * 0.22) / 0.42;
+const T_ML = 12.5 + (0.25 * 0.02) / 0.3;
+
+describe('Bench: log a sample and a curve titration, then approve it from Review', () => {
+  it('operator logs and submits with live P and T; analyst approves', async () => {
+    const { page } = b;
+    await signIn(page, baseUrl, 'operator@kestrelford.example');
+    await page.locator('nav[aria-label="Main"] [data-area="bench"]').click();
+    await page.getByRole('heading', { level: 1, name: 'Bench' }).waitFor();
+    await page.locator('[data-test="lab-cautions"]').waitFor();
+    await screenshot(page, 'bench-1-list');
+
+    // Log a sample at the first monitoring point.
+    await page.locator('[data-test="log-sample"]').click();
+    await page.locator('[data-test="sample-point"]').click();
+    await page.locator('.p-select-overlay .p-select-option').first().click();
+    await page.locator('.p-select-overlay').waitFor({ state: 'detached' });
+    await page.fill('#receiptTemperatureC', '4.0');
+    await page.fill('#sm-by', 'R. Okafor');
+    await screenshot(page, 'bench-2-log-sample');
+    await page.locator('[data-test="save-sample"]').click();
+    await page.waitForURL(/\/bench\/samples\/\d+/);
+    await page.locator('[data-test="lab-cautions"]').waitFor();
+
+    // A curve titration: nothing to show until the inputs are complete.
+    await page.locator('[data-test="add-titration"]').click();
+    await page.locator('[data-test="titration-form"]').waitFor();
+    const normText = await page.locator('[data-test="normality"]').innerText();
+    const normality = Number(/([\d.]+) N/.exec(normText)![1]);
+    expect(normality).toBeGreaterThan(0);
+    await page.fill('#tt-readings', READINGS);
+    await page.fill('#sampleVolumeMl', '');
+    await page.locator('[data-test="live-invalid"]').waitFor();
+    // Typing the sample volume brings P and T up at once, computed with the lot's normality.
+    await page.locator('#sampleVolumeMl').pressSequentially('100');
+    const expectedT = ((T_ML * normality * 50000) / 100).toFixed(1);
+    const expectedP = ((P_ML * normality * 50000) / 100).toFixed(1);
+    await page.locator('[data-test="live-t"]').getByText(expectedT).waitFor();
+    expect(await page.locator('[data-test="live-p"]').innerText()).toContain(expectedP);
+    await page.fill('#temperatureC', '21');
+    await page.evaluate(() => document.fonts.ready);
+    await screenshot(page, 'bench-3-titration-live');
+
+    await page.locator('[data-test="save-submit"]').click();
+    await page.locator('[data-test="titration-status"]').getByText('Submitted').waitFor();
+    expect(await page.locator('[data-test="stored-t"]').innerText()).toContain(expectedT);
+    const tab = page.locator('[data-test^="titration-tab-"]').last();
+    const titrationId = Number((await tab.getAttribute('data-test'))!.replace('titration-tab-', ''));
+    await screenshot(page, 'bench-4-submitted');
+
+    // The Curve view plots the readings.
+    await page.locator('[data-test="open-curve"]').click();
+    await page.locator('canvas').waitFor();
+    await page.locator('[data-test="readings-table"]').getByText('17.00').first().waitFor();
+    await screenshot(page, 'bench-5-curve');
+
+    // Back on the Bench list the sample shows its submitted result.
+    await page.locator('nav[aria-label="Main"] [data-area="bench"]').click();
+    await page.locator('[data-test="samples-table"]').getByText(expectedT).first().waitFor();
+    await screenshot(page, 'bench-5b-list-after');
+
+    await signOut(page);
+    await signIn(page, baseUrl, 'analyst@marrowfield.example');
+    await page.locator('nav[aria-label="Main"] [data-area="review"]').click();
+    await page.getByRole('heading', { level: 1, name: 'Review' }).waitFor();
+    const approve = page.locator(`[data-test="approve-${titrationId}"]`);
+    await approve.waitFor();
+    expect(await page.locator(`[data-test="review-result-${titrationId}"]`).innerText()).toContain(expectedT);
+    await screenshot(page, 'bench-6-review');
+    await approve.click();
+    await page.getByText('Approved', { exact: true }).first().waitFor();
+    await approve.waitFor({ state: 'detached' });
+    await screenshot(page, 'bench-7-approved');
+
+    // The record now says approved, with its audit trail.
+    await page.goto(`${baseUrl}/bench/titrations/${titrationId}/curve`);
+    await page.locator('[data-test="curve-results"]').waitFor();
+    expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
+  });
+});
