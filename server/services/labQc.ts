@@ -277,8 +277,12 @@ export async function listQcBatches(actor: Actor, raw: Record<string, unknown>) 
   if (raw.analysis === 'alkalinity' || raw.analysis === 'acidity') where.push({ analysis: raw.analysis });
   const passed = boolParam(raw.passed, 'passed');
   if (passed !== undefined) where.push({ passed });
-  if (typeof raw.from === 'string' && raw.from) where.push({ batchDate: { [Op.gte]: raw.from.slice(0, 10) } });
-  if (typeof raw.to === 'string' && raw.to) where.push({ batchDate: { [Op.lte]: raw.to.slice(0, 10) } });
+  for (const [field, op] of [['from', Op.gte], ['to', Op.lte]] as const) {
+    const v = raw[field];
+    if (v === undefined || v === '') continue;
+    if (typeof v !== 'string' || !/^\d{4}-\d{2}-\d{2}$/.test(v) || Number.isNaN(Date.parse(v))) throw new ValidationError(`${field} must be a date.`, { [field]: 'a date YYYY-MM-DD' });
+    where.push({ batchDate: { [op]: v } });
+  }
   const { rows, count } = await QcBatch.findAndCountAll({ where: { [Op.and]: where }, order: p.order, limit: p.limit, offset: p.offset });
   return { items: await Promise.all(rows.map((b) => qcBatchView(actor, b))), total: count };
 }

@@ -1,3 +1,4 @@
+import { onResultChanged } from './compliance.js';
 import { Op, OptimisticLockError, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { historyComparison } from '../../shared/chemistry/bench.js';
@@ -507,20 +508,37 @@ async function approveLocked(actor: Actor, row: Titration, t: Transaction, setti
 }
 
 export async function approveTitration(actor: Actor, id: number, body: z.output<typeof transitionSchema>): Promise<TitrationView> {
-  await inTransaction(undefined, async (t) => {
+  const sampleId = await inTransaction(undefined, async (t) => {
     const row = await lockTitration(actor, id, t);
     checkVersion(row, body.version);
     if (row.status !== 'submitted') throw new ConflictError(`Only a submitted result can be approved; this one is ${row.status}.`, { status: row.status });
     await approveLocked(actor, row, t, await benchSettings(actor.labId, t));
+    return row.sampleId;
   });
+  await judgeAgainstPermits(actor, [sampleId]);
   return viewOf(id);
+}
+
+/**
+ * After approvals commit: re-evaluate the permit periods the samples touch (new exceedances
+ * get notices, cured ones close). The approval stands even if this fails; the Compliance view
+ * computes the month afresh, and the next approval or a restart's seed pass catches up.
+ */
+async function judgeAgainstPermits(actor: Actor, sampleIds: number[]) {
+  for (const sampleId of new Set(sampleIds)) {
+    try {
+      await onResultChanged(sampleId, actor);
+    } catch (err) {
+      console.warn(`compliance re-evaluation failed for sample ${sampleId}: ${(err as Error).message}`);
+    }
+  }
 }
 
 /** Approves many submitted results at once: all of them or, if any cannot be, none. */
 export async function bulkApprove(actor: Actor, body: z.output<typeof bulkApproveSchema>, tx?: Transaction): Promise<{ approved: number[]; items: TitrationView[] }> {
   const ids = body.items.map((i) => i.id);
   if (new Set(ids).size !== ids.length) throw new ValidationError('A result is listed twice.', { items: 'each id once' });
-  await inTransaction(tx, async (t) => {
+  const sampleIds = await inTransaction(tx, async (t) => {
     const rows = await Titration.findAll({ where: { id: { [Op.in]: ids } }, transaction: t, lock: t.LOCK.UPDATE });
     const byId = new Map(rows.map((r) => [r.id, r]));
     const notFound: Record<string, string> = {};
@@ -537,7 +555,10 @@ export async function bulkApprove(actor: Actor, body: z.output<typeof bulkApprov
     if (Object.keys(wrong).length) throw new ConflictError('Only submitted results can be approved; nothing was approved.', wrong);
     const settings = await benchSettings(actor.labId, t);
     for (const id of ids) await approveLocked(actor, byId.get(id)!, t, settings);
+    return rows.map((r) => r.sampleId);
   });
+  // Inside a caller's transaction (the demo seed) the caller judges once at the end.
+  if (!tx) await judgeAgainstPermits(actor, sampleIds);
   const items = await Titration.findAll({ where: { id: { [Op.in]: ids } }, include: titrationIncludes(), transaction: tx });
   return { approved: ids, items: items.map(titrationView) };
 }

@@ -10,7 +10,7 @@ import { testConfig } from './env.js';
  * app's `sequelize` along.
  */
 export function apiTestApp(extra: Record<string, string> = {}, shared?: Sequelize) {
-  const config = testConfig('titrata_api', extra);
+  const config = testConfig(process.env.TEST_API_DB ?? 'titrata_api', extra);
   const sequelize: Sequelize = shared ?? createSequelize(dbTarget(config));
   const log = createLogger(config.LOG_LEVEL);
   const app = createApp({ config, sequelize, log });
