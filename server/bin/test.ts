@@ -11,9 +11,20 @@ import { startInstance, stopInstance } from './mariadb.js';
 import { testDbDir, testDbPort, testOutputDir } from '../../tests/setup/env.js';
 
 const say = (m: string) => console.log(`[titrata test] ${m}`);
-const layers = (process.env.TEST_LAYERS ?? 'unit,api,e2e').split(',').filter(Boolean);
+const layers = (process.env.TEST_LAYERS ?? 'types,unit,api,e2e').split(',').filter(Boolean);
 
 interface Counts { passed: number; failed: number; skipped: number; }
+
+/** The typecheck of client, server, shared and tests (vue-tsc), counted as one check. */
+function typecheck(): Promise<{ code: number; counts: Counts }> {
+  return new Promise((resolve) => {
+    const child = spawn(process.execPath, [path.join(rootDir, 'node_modules/vue-tsc/bin/vue-tsc.js'), '--noEmit', '-p', 'tsconfig.json'], { cwd: rootDir, stdio: 'inherit' });
+    child.on('exit', (code) => {
+      say(code === 0 ? 'typecheck: no errors' : 'typecheck: errors above');
+      resolve({ code: code ?? 1, counts: { passed: code === 0 ? 1 : 0, failed: code === 0 ? 0 : 1, skipped: 0 } });
+    });
+  });
+}
 
 function vitest(project: string, extraArgs: string[]): Promise<{ code: number; counts: Counts }> {
   const out = path.join(testOutputDir, `vitest-${project}.json`);
@@ -39,7 +50,7 @@ function vitest(project: string, extraArgs: string[]): Promise<{ code: number; c
 async function main() {
   const t0 = Date.now();
   mkdirSync(testOutputDir, { recursive: true });
-  const needsDb = layers.some((l) => l !== 'unit') && !process.env.TEST_DB_HOST;
+  const needsDb = layers.some((l) => l === 'api' || l === 'e2e') && !process.env.TEST_DB_HOST;
   const instance = needsDb ? await startInstance({ dir: testDbDir, port: testDbPort }) : undefined;
   if (instance) say(`test MariaDB on 127.0.0.1:${testDbPort} (${instance.startedHere ? 'started' : 'already running'})`);
 
@@ -48,7 +59,7 @@ async function main() {
   try {
     for (const layer of layers) {
       say(`layer: ${layer}`);
-      const { code, counts } = await vitest(layer, process.argv.slice(2));
+      const { code, counts } = layer === 'types' ? await typecheck() : await vitest(layer, process.argv.slice(2));
       total.passed += counts.passed;
       total.failed += counts.failed;
       total.skipped += counts.skipped;

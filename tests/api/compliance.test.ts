@@ -86,7 +86,7 @@ describe('approval → exceedance → notice', () => {
     const mailer = createMailer(ctx.config);
     await deliverDue(ctx.config, mailer);
     mailer.close();
-    const m = await smtp.waitForMessage((x) => x.subject.includes('2026-11-02'));
+    const m = await smtp.waitForMessage((x) => (x.subject ?? "").includes('2026-11-02'));
     expect(m.to).toEqual(expect.arrayContaining([REGULATOR, officer.email]));
     expect(m.text).toContain('40 mg/L as CaCO3');
     expect(m.text).toContain('at least 50 mg/L as CaCO3');
@@ -109,7 +109,7 @@ describe('approval → exceedance → notice', () => {
     await makeDue();
     await deliverDue(ctx.config, mailer);
     mailer.close();
-    expect(smtp.messages().filter((m) => m.subject.includes('2026-11-03'))).toHaveLength(1);
+    expect(smtp.messages().filter((m) => (m.subject ?? "").includes('2026-11-03'))).toHaveLength(1);
   });
 
   it('closes an exceedance that an amendment cures, and says so', async () => {
@@ -146,8 +146,8 @@ describe('signed notice links', () => {
   const linkOf = (text: string) => /\/public\/notices\/([\w.-]+)/.exec(text)![1];
 
   it('opens without signing in, and refuses a tampered or expired token', async () => {
-    const m = smtp.messages().find((x) => x.subject.includes('2026-11-02') && !x.subject.includes('no longer'))!;
-    const token = linkOf(m.text);
+    const m = smtp.messages().find((x) => (x.subject ?? "").includes('2026-11-02') && !(x.subject ?? "").includes('no longer'))!;
+    const token = linkOf(m.text ?? "");
     const ok = await request(ctx.app).get(`/api/v1/public/notices/${token}`);
     expect(ok.status).toBe(200);
     expect(ok.body.exceedance).toMatchObject({ reported: '40', units: 'mg/L as CaCO3' });
