@@ -1,4 +1,4 @@
-import { acknowledgeSchema, closeExceedanceSchema, complianceQuerySchema } from '../../shared/schemas/compliance.js';
+import { acknowledgeSchema, closeExceedanceSchema, complianceQuerySchema, projectionAlertSchema } from '../../shared/schemas/compliance.js';
 import { parseOrThrow } from '../../shared/schemas/parse.js';
 import { actorOf } from '../services/actor.js';
 import * as compliance from '../services/compliance.js';
@@ -24,6 +24,15 @@ export function complianceRoutes(r: RouteBuilder) {
   });
   r.get('/notices', 'compliance.read', async (req, res) => {
     res.json(await compliance.listNotices(actorOf(req), req.query as Record<string, unknown>));
+  });
+  r.get('/projection-alerts', 'exceedances.manage', async (req, res) => {
+    res.json(await compliance.listProjectionAlerts(actorOf(req)));
+  });
+  r.post('/projection-alerts', 'exceedances.manage', async (req, res) => {
+    res.status(201).json(await compliance.subscribeProjectionAlert(actorOf(req), parseOrThrow(projectionAlertSchema, req.body).facilityId));
+  });
+  r.delete('/projection-alerts/:id', 'exceedances.manage', async (req, res) => {
+    res.json(await compliance.unsubscribeProjectionAlert(actorOf(req), idOf(req.params.id)));
   });
   r.get('/public/notices/:token', 'public', async (req, res) => {
     res.json(await compliance.publicNotice(String(req.params.token)));

@@ -8,7 +8,7 @@ import type { ExceedanceRecord, Limit, LimitMonthSummary, Measurement, Parameter
 import { PARAMETER_LABELS, STATISTIC_LABELS } from '../../shared/schemas/permits.js';
 import type { Config } from '../config.js';
 import { sequelize } from '../db/current.js';
-import { Exceedance, Facility, MonitoringPoint, Notice, OutboxMessage, Permit, Sample, Titration, User } from '../db/models/index.js';
+import { Exceedance, Facility, MonitoringPoint, Notice, OutboxMessage, Permit, ProjectionAlert, Sample, Titration, User } from '../db/models/index.js';
 import { NotFoundError, ValidationError } from '../errors.js';
 import type { Actor } from './actor.js';
 import { audit, snapshot } from './audit.js';
@@ -342,29 +342,14 @@ const exceedanceIncludes = [
 ];
 
 /** Every limit of the facility's permits for a month, its statistic, value, count, bound and status; exceedances; projections. */
-export async function complianceMonth(actor: Actor, facilityId: number, month: string, asOf = dayjs.utc().format('YYYY-MM-DD')) {
+export async function complianceMonth(actor: Actor, facilityId: number, month: string, asOf?: string) {
   const facility = await Facility.findByPk(facilityId);
   if (!facility) throw new NotFoundError('Facility');
   assertInScope(actor, facility.organizationId, 'Facility');
   const fm = await evaluateFacilityMonth(facility, month);
   const points = new Map((await MonitoringPoint.findAll({ where: { facilityId } })).map((p) => [p.id, p]));
   const limits = fm.permits.flatMap(({ permit, evaluation }) => evaluation.limits.map((s) => summaryView(s, permit, points)));
-  // Early warning: part-way through the month, where each average is heading.
-  const projections = [];
-  const today = asOf;
-  if (today.startsWith(month)) {
-    for (const { permit, limits: ls } of fm.permits) {
-      for (const l of ls) {
-        if (l.statistic !== 'monthly_average' && l.statistic !== 'weekly_average') continue;
-        try {
-          const p = projectLimit(l, fm.measurements, today, { kind: 'daily' }, { timezone: facility.timezone, weekStartsOn: permit.weekStartsOn as 0, weekMonthRule: permit.weekMonthRule });
-          projections.push({ limitId: Number(l.id), pointCode: points.get(Number(l.pointId))?.code ?? null, ...p });
-        } catch {
-          // not in force or nothing to project this period
-        }
-      }
-    }
-  }
+  const projections = projectionsFor(fm, points, asOf ?? localToday(facility.timezone));
   const exceedances = await Exceedance.findAll({
     where: { facilityId, periodEnd: { [Op.between]: [`${month}-01`, dayjs.utc(`${month}-01`).endOf('month').format('YYYY-MM-DD')] } },
     include: exceedanceIncludes,
@@ -379,6 +364,95 @@ export async function complianceMonth(actor: Actor, facilityId: number, month: s
     exceedances: await withNotices(exceedances),
     series: seriesFor(fm),
   };
+}
+
+/** Today's date in the facility's time zone. */
+export function localToday(timezone: string): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone: timezone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
+}
+
+/** Early warning: part-way through a month or week, where each average limit is heading (daily sampling due). */
+function projectionsFor(fm: FacilityMonth, points: Map<number, MonitoringPoint>, today: string) {
+  const out = [];
+  if (!today.startsWith(fm.month)) return [];
+  for (const { permit, limits } of fm.permits) {
+    for (const l of limits) {
+      if (l.statistic !== 'monthly_average' && l.statistic !== 'weekly_average') continue;
+      try {
+        const p = projectLimit(l, fm.measurements, today, { kind: 'daily' }, { timezone: fm.facility.timezone, weekStartsOn: permit.weekStartsOn as 0, weekMonthRule: permit.weekMonthRule });
+        out.push({ limitId: Number(l.id), permitNumber: permit.number, pointCode: points.get(Number(l.pointId))?.code ?? null, ...p });
+      } catch {
+        // not in force, or nothing to project in this period
+      }
+    }
+  }
+  return out;
+}
+
+// ---- projection alerts ----------------------------------------------------------------
+
+export async function listProjectionAlerts(actor: Actor) {
+  const rows = await ProjectionAlert.findAll({ where: { userId: actor.id }, order: [['id', 'ASC']] });
+  return { items: rows.map((r) => ({ id: r.id, facilityId: r.facilityId, createdAt: r.createdAt })), total: rows.length };
+}
+
+/** The compliance officer opts in to an e-mail when a projected average of this facility crosses its limit. */
+export async function subscribeProjectionAlert(actor: Actor, facilityId: number) {
+  const facility = await Facility.findByPk(facilityId);
+  if (!facility) throw new ValidationError('Choose one of your facilities.', { facilityId: 'not found' });
+  assertInScope(actor, facility.organizationId, 'Facility');
+  const [row] = await ProjectionAlert.findOrCreate({ where: { userId: actor.id, facilityId }, defaults: { userId: actor.id, facilityId, organizationId: facility.organizationId } });
+  await audit(actor, { action: 'projection_alert.subscribed', entity: 'facility', entityId: facilityId, organizationId: facility.organizationId });
+  return { id: row.id, facilityId, createdAt: row.createdAt };
+}
+
+export async function unsubscribeProjectionAlert(actor: Actor, id: number) {
+  const row = await ProjectionAlert.findByPk(id);
+  if (!row || row.userId !== actor.id) throw new NotFoundError('Alert');
+  await row.destroy(); // a preference, not a compliance record
+  await audit(actor, { action: 'projection_alert.unsubscribed', entity: 'facility', entityId: row.facilityId, organizationId: row.organizationId });
+  return { id };
+}
+
+/**
+ * For every opted-in officer, e-mails each average limit whose projection crosses its limit
+ * this period — once per limit and period (the outbox dedupe key), whatever the job's pace.
+ */
+export async function checkProjectionAlerts(): Promise<number> {
+  const subs = await ProjectionAlert.findAll();
+  let queued = 0;
+  const byFacility = new Map<number, ProjectionAlert[]>();
+  for (const s of subs) byFacility.set(s.facilityId, [...(byFacility.get(s.facilityId) ?? []), s]);
+  for (const [facilityId, list] of byFacility) {
+    const facility = await Facility.findByPk(facilityId);
+    if (!facility) continue;
+    const today = localToday(facility.timezone);
+    const fm = await evaluateFacilityMonth(facility, today.slice(0, 7));
+    const points = new Map((await MonitoringPoint.findAll({ where: { facilityId } })).map((p) => [p.id, p]));
+    const crossing = projectionsFor(fm, points, today).filter((p) => p.crossesLimit);
+    for (const sub of list) {
+      const user = await User.findByPk(sub.userId);
+      if (!user?.active) continue;
+      for (const p of crossing) {
+        const key = `projection:${user.id}:${p.limitId}:${p.periodStart}`;
+        if (await OutboxMessage.findOne({ where: { dedupeKey: key } })) continue;
+        await enqueueMail({
+          dedupeKey: key,
+          organizationId: facility.organizationId,
+          to: [user.email],
+          subject: `Early warning, permit ${p.permitNumber}: ${p.pointCode} average heading past its limit at ${facility.name}`,
+          text: [
+            `${p.pointCode}, ${p.periodStart} to ${p.periodEnd}: ${p.sentence}`,
+            '',
+            'This is a projection from the approved results so far, not an exceedance. The permit and the regulator’s rules govern what must be reported.',
+            `Open the month: ${config().publicUrl}/compliance?facilityId=${facility.id}&month=${fm.month}`,
+          ].join('\n'),
+        });
+        queued++;
+      }
+    }
+  }
+  return queued;
 }
 
 /** Daily measurements per point and parameter for the trend charts. */

@@ -74,5 +74,8 @@ export const complianceApi = {
   exceedance: (id: number) => api.get<ExceedanceDto>(`/exceedances/${id}`),
   acknowledge: (id: number, correctiveAction: string) => api.post<ExceedanceDto>(`/exceedances/${id}/acknowledge`, { correctiveAction }),
   close: (id: number, reason: string) => api.post<ExceedanceDto>(`/exceedances/${id}/close`, { reason }),
+  alerts: () => api.get<Page<{ id: number; facilityId: number }>>('/projection-alerts'),
+  subscribe: (facilityId: number) => api.post<{ id: number; facilityId: number }>('/projection-alerts', { facilityId }),
+  unsubscribe: (id: number) => api.del<{ id: number }>(`/projection-alerts/${id}`),
   publicNotice: (token: string) => api.get<{ kind: string; subject: string; body: string; sentAt: string; expiresAt: string; exceedance: Record<string, string | null> }>(`/public/notices/${encodeURIComponent(token)}`),
 };

@@ -178,3 +178,38 @@ describe('acknowledging', () => {
     expect(closed.body.status).toBe('closed');
   });
 });
+
+describe('early warning', () => {
+  it('projects a monthly average heading below its minimum and e-mails opted-in officers once per period', async () => {
+    const { app } = ctx;
+    const { checkProjectionAlerts } = await import('../../server/services/compliance.js');
+    const s2 = await makeSite(app);
+    const admin = await as(app, demo.admin);
+    const u = await admin.post('/api/v1/users', { email: `co2-${Date.now()}@utility.example`, name: 'Second Officer', role: 'compliance_officer', organizationId: s2.facility.organizationId });
+    const permit = await admin.post('/api/v1/permits', { facilityId: s2.facility.id, number: `EW-${Date.now()}`, issuingAuthority: 'Test authority', effectiveFrom: '2026-01-01', regulatorContacts: [{ name: 'Desk', email: REGULATOR }] });
+    await admin.post(`/api/v1/permits/${permit.body.id}/limits`, { pointId: s2.point.id, parameter: 'total_alkalinity', statistic: 'monthly_average', bound: 'minimum', value: '60', units: 'mg/L as CaCO3', significantFigures: 2, effectiveFrom: '2026-01-01' });
+    // 4.00 mL → 40 mg/L (SM 2320 B) just now: at the current mean the monthly average will be 40 against a minimum of 60
+    const now = dayjs();
+    const { titration } = await makeResult(app, demo.analyst, { pointId: s2.point.id, titrantId: lot.id, analysedAt: now, titreMl: 4.0, sample: { collectedAt: now.subtract(1, 'minute').toISOString() } });
+    const analyst = await as(app, demo.analyst);
+    const sub = await analyst.post(`/api/v1/titrations/${titration.id}/submit`, { version: titration.version });
+    await analyst.post(`/api/v1/titrations/${titration.id}/approve`, { version: sub.body.version });
+
+    const login = await request(app).post('/api/v1/auth/login').send({ email: u.body.user.email, password: u.body.temporaryPassword });
+    const auth = { Authorization: `Bearer ${login.body.token}` };
+    const month = await request(app).get(`/api/v1/compliance?facilityId=${s2.facility.id}&month=${now.format('YYYY-MM')}`).set(auth);
+    const p = month.body.projections.find((x: { crossesLimit: boolean }) => x.crossesLimit);
+    expect(p.sentence).toMatch(/At the current mean the monthly average will be 40 mg\/L as CaCO3 against a minimum of 60/);
+
+    expect((await request(app).post('/api/v1/projection-alerts').set(auth).send({})).status).toBe(400);
+    const optIn = await request(app).post('/api/v1/projection-alerts').set(auth).send({ facilityId: s2.facility.id });
+    expect(optIn.status).toBe(201);
+    const first = await checkProjectionAlerts();
+    expect(first).toBeGreaterThanOrEqual(1);
+    expect(await checkProjectionAlerts()).toBe(0);
+    const queued = await OutboxMessage.findAll({ where: { dedupeKey: { [(await import('sequelize')).Op.like]: `projection:${login.body.user.id}:%` } } });
+    expect(queued).toHaveLength(1);
+    expect(queued[0].toAddresses).toEqual([u.body.user.email]);
+    expect(queued[0].textBody).toContain('not an exceedance');
+  });
+});

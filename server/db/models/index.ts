@@ -4,6 +4,7 @@ import { Facility } from './Facility.js';
 import { MonitoringPoint } from './MonitoringPoint.js';
 import { Exceedance, Notice } from './Exceedance.js';
 import { Organization } from './Organization.js';
+import { ProjectionAlert } from './ProjectionAlert.js';
 import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
 import { Permit } from './Permit.js';
 import { PermitLimit } from './PermitLimit.js';
@@ -17,7 +18,7 @@ import { Titration } from './Titration.js';
 import { TitrationReading } from './TitrationReading.js';
 import { associate } from './associations.js';
 
-export { Exceedance, Notice };
+export { Exceedance, Notice, ProjectionAlert };
 export { AuditEvent, Facility, MonitoringPoint, Organization, OutboxAttachment, OutboxMessage, Permit, PermitLimit, User };
 export { MeterCalibration, QcBatch, Sample, Standardization, Titrant, Titration, TitrationReading };
 
@@ -38,6 +39,7 @@ export function initModels(sequelize: Sequelize) {
     OutboxAttachment,
     Exceedance,
     Notice,
+    ProjectionAlert,
   ];
   for (const m of models) m.initModel(sequelize);
   for (const m of [Titrant, Standardization, MeterCalibration, Sample, QcBatch, Titration, TitrationReading]) m.initModel(sequelize);
