@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { nonNegative, number, ph, positive, temperatureC } from './numbers.js';
 import { CACO3_FACTORS } from '../chemistry/constants.js';
 
 /**
@@ -8,34 +9,10 @@ import { CACO3_FACTORS } from '../chemistry/constants.js';
  * default used in its place.
  */
 
-function number() {
-  return z.number({ error: (issue) => (issue.input === undefined ? 'required' : 'must be a number') });
-}
-
-function positive(max: number, unit: string) {
-  return number()
-    .gt(0, { error: 'must be greater than 0' })
-    .lte(max, { error: `must be at most ${max} ${unit}` });
-}
-
-function nonNegative(max: number, unit: string) {
-  return number()
-    .gte(0, { error: 'must be 0 or more' })
-    .lte(max, { error: `must be at most ${max} ${unit}` });
-}
 
 const sampleVolumeMl = () => positive(5000, 'mL');
 const titrantNormality = () => positive(10, 'N');
 const titrantVolumeMl = () => nonNegative(1000, 'mL');
-const ph = () =>
-  number()
-    .gte(0, { error: 'must be between 0 and 14' })
-    .lte(14, { error: 'must be between 0 and 14' });
-/** The equilibrium constants are published for 0–90 °C (Plummer and Busenberg 1982). */
-const temperatureC = () =>
-  number()
-    .gte(0, { error: 'must be between 0 and 90 °C (range of the equilibrium constants)' })
-    .lte(90, { error: 'must be between 0 and 90 °C (range of the equilibrium constants)' });
 const concentrationMgL = () => nonNegative(100_000, 'mg/L');
 const conductance = () => nonNegative(200_000, 'µS/cm');
 const ionicStrength = () => nonNegative(1, 'mol/L');

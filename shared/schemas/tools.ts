@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { nonNegative, number, ph, positive, temperatureC } from './numbers';
 import { CACO3_FACTORS } from '../chemistry/constants';
 import { ALKALINITY_CHEMICAL_KEYS, type AlkalinityChemical } from '../chemistry/tools/alkalinityDose';
 
@@ -8,31 +9,7 @@ import { ALKALINITY_CHEMICAL_KEYS, type AlkalinityChemical } from '../chemistry/
  * objects, short field-level reasons; alkalinity and hardness are mg/L as CaCO3.
  */
 
-function number() {
-  return z.number({ error: (issue) => (issue.input === undefined ? 'required' : 'must be a number') });
-}
 
-function positive(max: number, unit: string) {
-  return number()
-    .gt(0, { error: 'must be greater than 0' })
-    .lte(max, { error: `must be at most ${max} ${unit}` });
-}
-
-function nonNegative(max: number, unit: string) {
-  return number()
-    .gte(0, { error: 'must be 0 or more' })
-    .lte(max, { error: `must be at most ${max} ${unit}` });
-}
-
-const ph = () =>
-  number()
-    .gte(0, { error: 'must be between 0 and 14' })
-    .lte(14, { error: 'must be between 0 and 14' });
-/** The equilibrium constants are published for 0–90 °C (Plummer and Busenberg 1982). */
-const temperatureC = () =>
-  number()
-    .gte(0, { error: 'must be between 0 and 90 °C (range of the equilibrium constants)' })
-    .lte(90, { error: 'must be between 0 and 90 °C (range of the equilibrium constants)' });
 const temperatureF = () =>
   number()
     .gte(32, { error: 'must be between 32 and 194 °F (range of the equilibrium constants)' })
