@@ -15,7 +15,9 @@ declare module 'vitest' {
 
 /** Browser layer: a clean `titrata_e2e` database with the demo data, the built client, the fakes and the app. */
 export default async function setup(project: TestProject) {
-  const ports = { PORT: '8180', SMTP_PORT: '2625', MAILBOX_PORT: '8126', PAYMENTS_PORT: '8191' };
+  // E2E_PORT_OFFSET lets two checkouts run their browser layers side by side.
+  const off = Number(process.env.E2E_PORT_OFFSET ?? 0);
+  const ports = { PORT: String(8180 + off), SMTP_PORT: String(2625 + off), MAILBOX_PORT: String(8126 + off), PAYMENTS_PORT: String(8191 + off) };
   const config = testConfig('titrata_e2e', ports);
   await prepareDatabase(config, { instanceDir: testDbDir, fresh: true });
   await ensureClientBuilt();
