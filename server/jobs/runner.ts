@@ -3,9 +3,10 @@ import type { Config } from '../config.js';
 import { createMailer } from '../integrations/mailer.js';
 import { deliverDue } from '../services/outbox.js';
 import { checkProjectionAlerts } from '../services/compliance.js';
+import { processReportBatches } from '../services/reports.js';
 
 /**
- * Background jobs of one app process: the outbox sender every few seconds. Any number of
+ * Background jobs of one app process: the outbox sender and report batches every few seconds. Any number of
  * processes may run it; rows are claimed with SKIP LOCKED.
  */
 export function startJobs(config: Config, log: Logger, intervalMs = 2000) {
@@ -21,6 +22,8 @@ export function startJobs(config: Config, log: Logger, intervalMs = 2000) {
     try {
       const r = await deliverDue(config, mailer);
       if (r.sent || r.failed) log.info(r, 'outbox round');
+      const made = await processReportBatches();
+      if (made) log.info({ made }, 'report batch round');
       if (Date.now() - lastProjectionCheck > PROJECTION_EVERY_MS) {
         lastProjectionCheck = Date.now();
         const queued = await checkProjectionAlerts();

@@ -10,6 +10,7 @@ import { openApiRoutes } from './openapi.js';
 import { permitRoutes } from './permits.js';
 import { labQcRoutes } from './labQc.js';
 import { routes } from './registry.js';
+import { reportRoutes } from './reports.js';
 import { sampleRoutes } from './samples.js';
 import { titrationRoutes } from './titrations.js';
 import { toolRoutes } from './tools.js';
@@ -32,5 +33,6 @@ export function apiRouter(deps: AppDeps): Router {
   sampleRoutes(r);
   titrationRoutes(r, deps.config);
   labQcRoutes(r);
+  reportRoutes(r);
   return r.router;
 }

@@ -6,6 +6,7 @@ import { Organization } from './Organization.js';
 import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
 import { Permit } from './Permit.js';
 import { PermitLimit } from './PermitLimit.js';
+import { Report } from './Report.js';
 import { User } from './User.js';
 import { MeterCalibration } from './MeterCalibration.js';
 import { QcBatch } from './QcBatch.js';
@@ -37,6 +38,8 @@ export function associate() {
   Exceedance.hasMany(Notice, { as: 'notices', foreignKey: 'exceedanceId' });
   Notice.belongsTo(Exceedance, { as: 'exceedance', foreignKey: 'exceedanceId' });
   Notice.belongsTo(OutboxMessage, { as: 'outbox', foreignKey: 'outboxMessageId' });
+  Report.belongsTo(Facility, { as: 'facility', foreignKey: 'facilityId' });
+  Report.belongsTo(User, { as: 'certifiedBy', foreignKey: 'certifiedById' });
 
   // Bench
   Titrant.hasMany(Standardization, { as: 'standardizations', foreignKey: 'titrantId' });

@@ -5,6 +5,8 @@ import { MonitoringPoint } from './MonitoringPoint.js';
 import { Exceedance, Notice } from './Exceedance.js';
 import { Organization } from './Organization.js';
 import { ProjectionAlert } from './ProjectionAlert.js';
+import { Report } from './Report.js';
+import { ReportBatch } from './ReportBatch.js';
 import { OutboxAttachment, OutboxMessage } from './OutboxMessage.js';
 import { Permit } from './Permit.js';
 import { PermitLimit } from './PermitLimit.js';
@@ -18,7 +20,7 @@ import { Titration } from './Titration.js';
 import { TitrationReading } from './TitrationReading.js';
 import { associate } from './associations.js';
 
-export { Exceedance, Notice, ProjectionAlert };
+export { Exceedance, Notice, ProjectionAlert, Report, ReportBatch };
 export { AuditEvent, Facility, MonitoringPoint, Organization, OutboxAttachment, OutboxMessage, Permit, PermitLimit, User };
 export { MeterCalibration, QcBatch, Sample, Standardization, Titrant, Titration, TitrationReading };
 
@@ -40,6 +42,8 @@ export function initModels(sequelize: Sequelize) {
     Exceedance,
     Notice,
     ProjectionAlert,
+    Report,
+    ReportBatch,
   ];
   for (const m of models) m.initModel(sequelize);
   for (const m of [Titrant, Standardization, MeterCalibration, Sample, QcBatch, Titration, TitrationReading]) m.initModel(sequelize);
