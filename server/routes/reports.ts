@@ -37,6 +37,9 @@ export function reportRoutes(r: RouteBuilder) {
   r.post('/reports/:id/certify', 'reports.certify', async (req, res) => {
     res.json(await reports.certifyReport(actorOf(req), idOf(req.params.id), req.body ?? {}));
   });
+  r.get('/reports/:id/pending-changes', 'reports.read', async (req, res) => {
+    res.json(await reports.pendingChanges(actorOf(req), idOf(req.params.id)));
+  });
   r.post('/reports/:id/revisions', 'reports.certify', async (req, res) => {
     res.status(201).json(await reports.reviseReport(actorOf(req), idOf(req.params.id), req.body ?? {}));
   });

@@ -32,18 +32,28 @@ function headerRow(cells: string[]) {
   return cells.map((c) => ({ text: c, bold: true, fillColor: LIMESTONE }));
 }
 
-/** A small line chart of one series with the limit as a dashed line. */
-export function trendSvg(points: { sampledAt: string; value: number }[], limitValue: number | null, width = 480, height = 140): string {
-  const pad = 28;
-  const values = points.map((p) => p.value).concat(limitValue !== null ? [limitValue] : []);
-  const min = Math.min(...values, 0);
-  const max = Math.max(...values, 1) * 1.1;
+/** A daily value as shown in the tables: three significant figures (common practice for a bench titration). */
+export const shown = (v: number) => String(Number(v.toPrecision(3)));
+
+/**
+ * A small line chart of one series, each limit a dashed line. No text inside the SVG: the
+ * PDF would need a second font for it; the caption under the chart carries the scale.
+ */
+export function trendSvg(points: { sampledAt: string; value: number }[], limitValues: number[], width = 480, height = 140): { svg: string; low: number; high: number } {
+  const pad = 12;
+  const values = points.map((p) => p.value).concat(limitValues);
+  const lowest = values.length ? Math.min(...values) : 0;
+  const highest = values.length ? Math.max(...values) : 1;
+  const span = highest - lowest || Math.abs(highest) || 1;
+  const low = lowest - span * 0.1;
+  const high = highest + span * 0.1;
   const x = (i: number) => pad + (points.length <= 1 ? 0 : (i * (width - 2 * pad)) / (points.length - 1));
-  const y = (v: number) => height - pad - ((v - min) / (max - min || 1)) * (height - 2 * pad);
+  const y = (v: number) => height - pad - ((v - low) / (high - low)) * (height - 2 * pad);
   const line = points.map((p, i) => `${x(i).toFixed(1)},${y(p.value).toFixed(1)}`).join(' ');
   const dots = points.map((p, i) => `<circle cx="${x(i).toFixed(1)}" cy="${y(p.value).toFixed(1)}" r="2" fill="${TEAL}"/>`).join('');
-  const limit = limitValue !== null ? `<line x1="${pad}" x2="${width - pad}" y1="${y(limitValue).toFixed(1)}" y2="${y(limitValue).toFixed(1)}" stroke="#B4532A" stroke-width="1" stroke-dasharray="4,3"/>` : '';
-  return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}"><rect x="0" y="0" width="${width}" height="${height}" fill="#FFFFFF"/><line x1="${pad}" y1="${height - pad}" x2="${width - pad}" y2="${height - pad}" stroke="#999" stroke-width="0.5"/><line x1="${pad}" y1="${pad}" x2="${pad}" y2="${height - pad}" stroke="#999" stroke-width="0.5"/>${limit}${points.length > 1 ? `<polyline points="${line}" fill="none" stroke="${TEAL}" stroke-width="1.5"/>` : ''}${dots}</svg>`;
+  const limits = limitValues.map((v) => `<line x1="${pad}" x2="${width - pad}" y1="${y(v).toFixed(1)}" y2="${y(v).toFixed(1)}" stroke="#B4532A" stroke-width="1" stroke-dasharray="4,3"/>`).join('');
+  const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}"><rect x="0" y="0" width="${width}" height="${height}" fill="#FFFFFF"/><line x1="${pad}" y1="${height - pad}" x2="${width - pad}" y2="${height - pad}" stroke="#999" stroke-width="0.5"/><line x1="${pad}" y1="${pad}" x2="${pad}" y2="${height - pad}" stroke="#999" stroke-width="0.5"/>${limits}${points.length > 1 ? `<polyline points="${line}" fill="none" stroke="${TEAL}" stroke-width="1.5"/>` : ''}${dots}</svg>`;
+  return { svg, low, high };
 }
 
 /** The report's PDF: our own layout, Work Sans, page header and footer with page numbers. */
@@ -58,15 +68,15 @@ export async function renderReportPdf(c: Record<string, any>): Promise<Buffer> {
     {
       table: {
         headerRows: 1,
-        widths: ['auto', '*', 'auto', 'auto', 'auto', 'auto', 'auto'],
+        widths: ['auto', '*', '*', 'auto', 'auto', 'auto', 'auto'],
         body: [
           headerRow(['Point', 'Parameter', 'Statistic', 'Limit', 'Value', 'Samples', 'Status']),
           ...limits.map((l) => [
             l.pointCode ?? '',
             label(l.parameter),
             `${statLabel(l.statistic)} ${l.bound}`,
-            `${l.bound === 'minimum' ? '≥' : '≤'} ${Number(l.limitValue)} ${l.units}`,
-            l.reported !== null && l.reported !== undefined ? `${l.reported} ${l.units}` : '—',
+            { text: `${l.bound === 'minimum' ? '≥' : '≤'} ${Number(l.limitValue)} ${l.units}`, noWrap: true },
+            { text: l.reported !== null && l.reported !== undefined ? `${l.reported} ${l.units}` : '—', noWrap: true },
             String(l.sampleCount),
             { text: STATUS_WORDS[l.status] ?? l.status, bold: l.status === 'exceeded', color: l.status === 'exceeded' ? '#B4532A' : '#1F2A2E' },
           ]),
@@ -119,9 +129,17 @@ export async function renderReportPdf(c: Record<string, any>): Promise<Buffer> {
   ];
   for (const d of c.daily as any[]) {
     content.push({ text: `${d.pointCode ?? d.pointId} · ${label(d.parameter)} (${d.units})`, style: 'h2', pageBreak: undefined });
-    content.push({ svg: trendSvg(d.values, d.limitValue), width: 480, margin: [0, 0, 0, 6] });
+    const lims = limits.filter((l) => l.pointCode === d.pointCode && l.parameter === d.parameter);
+    const chart = trendSvg(d.values, lims.map((l) => Number(l.limitValue)));
+    content.push({ svg: chart.svg, width: 480, margin: [0, 0, 0, 2] });
     content.push({
-      table: { headerRows: 1, widths: ['auto', 'auto'], body: [headerRow(['Sampled (UTC)', `Value (${d.units})`]), ...(d.values as any[]).map((v) => [String(v.sampledAt).slice(0, 16).replace('T', ' '), String(v.value)])] },
+      text: `Daily values in ${d.units}, first to last sample of the month; scale ${shown(chart.low)} to ${shown(chart.high)}.${lims.length ? ` Dashed: ${lims.map((l) => `${statLabel(l.statistic).toLowerCase()} ${l.bound} ${Number(l.limitValue)}`).join('; ')}.` : ''}`,
+      fontSize: 7,
+      color: '#5B6577',
+      margin: [0, 0, 0, 6],
+    });
+    content.push({
+      table: { headerRows: 1, widths: ['auto', 'auto'], body: [headerRow(['Sampled (UTC)', `Value (${d.units})`]), ...(d.values as any[]).map((v) => [String(v.sampledAt).slice(0, 16).replace('T', ' '), shown(v.value)])] },
       fontSize: 8,
       layout: 'lightHorizontalLines',
     });

@@ -212,6 +212,14 @@ export function diffContents(before: Record<string, any>, after: Record<string, 
   return changes;
 }
 
+/** What a revision made now would change against this certified version (shown before confirming). */
+export async function pendingChanges(actor: Actor, id: number) {
+  const r = await load(actor, id);
+  if (r.status === 'draft') return { changes: [] };
+  const probe = Report.build({ organizationId: r.organizationId, facilityId: r.facilityId, month: r.month, status: 'draft' });
+  return { changes: diffContents(r.content ?? {}, await contentOf(actor, probe)) };
+}
+
 export async function reviseReport(actor: Actor, id: number, body: { reason?: unknown }) {
   const reason = typeof body.reason === 'string' ? body.reason.trim() : '';
   if (reason.length < 3) throw new ValidationError('A revision needs a reason.', { reason: 'required' });
@@ -295,7 +303,19 @@ export async function setBatchState(actor: Actor, id: number, body: { action?: u
  * transaction (a draft per facility-month; an existing report is left as it is). Returns how
  * many items it handled.
  */
-export async function processReportBatches(maxItems = 6): Promise<number> {
+let processing = false;
+export async function processReportBatches(maxItems = 12): Promise<number> {
+  // One round at a time per process (the job runner and a caller may overlap).
+  if (processing) return 0;
+  processing = true;
+  try {
+    return await processRound(maxItems);
+  } finally {
+    processing = false;
+  }
+}
+
+async function processRound(maxItems: number): Promise<number> {
   let handled = 0;
   const batches = await ReportBatch.findAll({ where: { status: 'running' }, order: [['id', 'ASC']], limit: 5 });
   for (const b of batches) {
@@ -321,7 +341,10 @@ export async function processReportBatches(maxItems = 6): Promise<number> {
           Object.assign(item, { state: 'made', reportId: made.id });
         }
       } catch (err) {
-        Object.assign(item, { state: 'failed', error: (err as Error).message.slice(0, 300) });
+        // Another process made it first: that report is this item's.
+        const made = err instanceof ConflictError ? await Report.findOne({ where: { facilityId: item.facilityId, month: item.month }, order: [['revision', 'DESC']] }) : null;
+        if (made) Object.assign(item, { state: 'existing', reportId: Number(made.id) });
+        else Object.assign(item, { state: 'failed', error: (err as Error).message.slice(0, 300) });
       }
     }
     const done = items.filter((i) => i.state !== 'pending').length;

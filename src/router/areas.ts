@@ -73,6 +73,17 @@ export const areas: Area[] = [
     routes: [{ path: 'compliance', name: 'compliance', component: () => import('@/views/compliance/ComplianceView.vue') }],
   },
   {
+    key: 'reports',
+    label: 'Reports',
+    icon: 'pi pi-file-pdf',
+    path: '/reports',
+    capability: 'reports.read',
+    routes: [
+      { path: 'reports', name: 'reports', component: () => import('@/views/reports/ReportsView.vue') },
+      { path: 'reports/:id', name: 'report', component: () => import('@/views/reports/ReportView.vue'), props: true },
+    ],
+  },
+  {
     key: 'tools',
     label: 'Tools',
     icon: 'pi pi-calculator',

@@ -149,7 +149,7 @@ describe('monthly reports', () => {
     const mailer = createMailer(ctx.config);
     await deliverDue(ctx.config, mailer);
     mailer.close();
-    const m = await smtp.waitForMessage((x) => (x.subject ?? '').includes(`Monitoring report ${MONTH}`));
+    const m = await smtp.waitForMessage((x) => (x.subject ?? '').includes(`Monitoring report ${MONTH}`) && JSON.stringify(x.to).includes(REGULATOR));
     expect(m.to).toContain(REGULATOR);
     expect(JSON.stringify(m)).toMatch(/application\/pdf|\.pdf/);
   });

@@ -11,6 +11,7 @@ import { testDbDir, testDbPort } from '../setup/env.js';
 import { calcRates, sixtyReadings } from './calc.js';
 import { complianceTimings } from './compliance.js';
 import { benchDir, load, withBenchServer, type HttpResult } from './http.js';
+import { pdfTimings, yearBatchTiming } from './reports.js';
 
 async function main() {
   const machine = `${os.cpus().length} × ${os.cpus()[0]?.model ?? 'CPU'}, ${Math.round(os.totalmem() / 2 ** 30)} GiB, Node ${process.version}, ${os.platform()} ${os.release()}`;
@@ -20,10 +21,16 @@ async function main() {
   const compliance = complianceTimings();
   console.log('compliance', JSON.stringify(compliance));
 
+  const pdf = await pdfTimings();
+  console.log('report pdf', JSON.stringify(pdf));
+
   const instance = await startInstance({ dir: testDbDir, port: testDbPort });
   const http: HttpResult[] = [];
+  let batch: Awaited<ReturnType<typeof yearBatchTiming>> | null = null;
   try {
     await withBenchServer(async (base, token) => {
+      batch = await yearBatchTiming();
+      console.log('report year batch', JSON.stringify(batch));
       const t = await token('analyst@marrowfield.example');
       const readings = sixtyReadings();
       for (const connections of [1, 10, 50]) {
@@ -38,7 +45,7 @@ async function main() {
   for (const h of http) console.log(`${h.name} @${h.connections}: ${h.throughputPerSec}/s p50 ${h.p50Ms} ms p95 ${h.p95Ms} ms p99 ${h.p99Ms} ms non-2xx ${h.non2xx}`);
 
   const ranAt = new Date().toISOString();
-  writeFileSync(path.join(benchDir, 'results.json'), JSON.stringify({ ranAt, machine, rates, compliance, http }, null, 2) + '\n');
+  writeFileSync(path.join(benchDir, 'results.json'), JSON.stringify({ ranAt, machine, rates, compliance, pdf, batch, http }, null, 2) + '\n');
   const md = [
     '# Benchmark results',
     '',
@@ -59,6 +66,12 @@ async function main() {
     ...compliance.growth.map((g) => `| ${g.months} | ${g.results.toLocaleString('en-US')} | ${g.totalMs} | ${g.msPerMonth} |`),
     '',
     'Per-month cost stays flat as the history grows: a re-evaluation is linear in the months touched.',
+    '',
+    '## Monthly report',
+    '',
+    `PDF of a large facility month (${pdf.series} series, ${pdf.dailyValues.toLocaleString('en-US')} daily values, ${Math.round(pdf.bytes / 1024)} KiB): **${pdf.medianMs} ms** median of three (target under 2 s); peak resident memory ${pdf.peakRssMiB} MiB, ${pdf.rssGrowthMiB} MiB above the process before rendering.`,
+    '',
+    batch ? `A year batch for ${(batch as any).facilities} demo facilities (${(batch as any).reports} facility-months, drafts made and evaluated through the job function): **${(batch as any).totalMs} ms**, ${(batch as any).failed} failed.` : '(year batch not run)',
     '',
     '## Bench at scale',
     '',

@@ -4,6 +4,7 @@ import { initModels } from '../models/index.js';
 import { seedBench } from './bench.js';
 import { seedIdentity } from './identity.js';
 import { seedCompliance, seedPermits } from './permits.js';
+import { seedReports } from './reports.js';
 
 export interface SeedStep {
   key: string;
@@ -25,6 +26,7 @@ const steps: SeedStep[] = [
   { key: 'bench', run: seedBench },
   { key: 'permits', run: seedPermits },
   { key: 'compliance', run: seedCompliance, ownTransactions: true },
+  { key: 'reports', run: seedReports, ownTransactions: true },
 ];
 
 /**
