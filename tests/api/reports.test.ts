@@ -151,7 +151,12 @@ describe('monthly reports', () => {
     mailer.close();
     const m = await smtp.waitForMessage((x) => (x.subject ?? '').includes(`Monitoring report ${MONTH}`) && JSON.stringify(x.to).includes(REGULATOR));
     expect(m.to).toContain(REGULATOR);
-    expect(JSON.stringify(m)).toMatch(/application\/pdf|\.pdf/);
+    const pdf = m.attachments.find((a) => a.contentType === 'application/pdf');
+    expect(pdf?.filename).toBe(`report-${MONTH}-r1.pdf`);
+    // the attachment is the certified PDF itself: same size as the stored one
+    const stored = (await binary(co.get(`/api/v1/reports/${id}/pdf`))).body as Buffer;
+    expect(pdf?.size).toBe(stored.length);
+    expect(m.text).toContain(createHash('sha256').update(stored).digest('hex'));
   });
 
   it('a revision needs a reason, keeps the old version and its hash, and lists what changed', async () => {
