@@ -1,0 +1,90 @@
+import dayjs from 'dayjs';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startInstance, stopInstance } from '../../server/bin/mariadb.js';
+import { Sample } from '../../server/db/models/index.js';
+import { as, demo, tokenFor } from '../fixtures/auth.js';
+import { makeAcidLot, makeResult, makeSite } from '../fixtures/bench.js';
+import { apiTestApp } from '../setup/db.js';
+import { testDbDir, testDbPort } from '../setup/env.js';
+
+/**
+ * Faults (also `npm run test:faults`): MariaDB stopped under a stream of writes, and two
+ * analysts approving the same result at once. The API layer runs its files one at a time, so
+ * stopping the shared test instance here disturbs no other file.
+ */
+const { app, sequelize } = apiTestApp();
+afterAll(() => sequelize.close());
+let site: Awaited<ReturnType<typeof makeSite>>;
+let writerToken: string;
+
+beforeAll(async () => {
+  site = await makeSite(app);
+  writerToken = await tokenFor(app, demo.analyst);
+});
+
+const write = (i: number) =>
+  request(app)
+    .post('/api/v1/samples')
+    .set('Authorization', `Bearer ${writerToken}`)
+    .send({ sampleType: 'grab', pointId: site.point.id, collectedAt: dayjs().subtract(1, 'hour').toISOString(), notes: `fault stream ${i}` });
+
+describe('MariaDB stopped during a stream of writes', () => {
+  it.skipIf(!!process.env.TEST_DB_HOST)('answers 503 while down, recovers by itself, and keeps every write it acknowledged', async () => {
+    const acknowledged: number[] = [];
+    const statuses: number[] = [];
+    let i = 0;
+    let running = true;
+    // a client writing continuously, four requests in flight at a time
+    const stream = (async () => {
+      while (running) {
+        const batch = await Promise.all([0, 1, 2, 3].map(() => write(i++)));
+        for (const r of batch) {
+          statuses.push(r.status);
+          if (r.status === 201) acknowledged.push(Number(r.body.id));
+          else expect(r.status, JSON.stringify(r.body)).toBe(503);
+        }
+      }
+    })();
+    await new Promise((r) => setTimeout(r, 700));
+    const beforeStop = acknowledged.length;
+    await stopInstance({ dir: testDbDir, port: testDbPort });
+    await new Promise((r) => setTimeout(r, 1500));
+    const whileDown = statuses.length;
+    await startInstance({ dir: testDbDir, port: testDbPort });
+    // wait until writes succeed again on the same app (no restart)
+    const t0 = Date.now();
+    while (acknowledged.length <= beforeStop + 8 && Date.now() - t0 < 20000) await new Promise((r) => setTimeout(r, 200));
+    running = false;
+    await stream;
+
+    expect(beforeStop).toBeGreaterThan(0);
+    expect(statuses).toContain(503);
+    expect(statuses.slice(whileDown).filter((s) => s === 201).length).toBeGreaterThan(0);
+    // every 201 is in the database, once
+    const rows = await Sample.findAll({ where: { id: acknowledged }, attributes: ['id', 'notes'] });
+    expect(rows.length).toBe(new Set(acknowledged).size);
+    expect(rows.every((r) => String(r.notes).startsWith('fault stream'))).toBe(true);
+    const health = await request(app).get('/api/v1/health');
+    expect(health.status).toBe(200);
+  }, 60000);
+});
+
+describe('concurrent approvals of one result', () => {
+  it('lets one approval win and answers the other 409', async () => {
+    const lot = await makeAcidLot(app);
+    const { titration } = await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: lot.id, analysedAt: dayjs().subtract(30, 'minute'), titreMl: 5 });
+    const analyst = await as(app, demo.analyst);
+    const sub = await analyst.post(`/api/v1/titrations/${titration.id}/submit`, { version: titration.version });
+    expect(sub.status).toBe(200);
+    const admin = await as(app, demo.admin);
+    const [a, b] = await Promise.all([
+      analyst.post(`/api/v1/titrations/${titration.id}/approve`, { version: sub.body.version }),
+      admin.post(`/api/v1/titrations/${titration.id}/approve`, { version: sub.body.version }),
+    ]);
+    expect([a.status, b.status].sort()).toEqual([200, 409]);
+    const after = await analyst.get(`/api/v1/titrations/${titration.id}`);
+    expect(after.body.status).toBe('approved');
+    expect(after.body.version).toBe(sub.body.version + 1);
+  });
+});
