@@ -31,6 +31,8 @@ const schema = z.object({
   DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
   JWT_SECRET: z.string().min(32).optional(),
   JWT_TTL: z.string().default('8h'),
+  /** Comma-separated earlier secrets still accepted (not used to sign) while a rotation runs out. */
+  JWT_PREVIOUS_SECRETS: z.string().default(''),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: port.default(2525),
   SMTP_USER: z.string().optional(),
@@ -52,7 +54,7 @@ const schema = z.object({
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
-export type Config = z.infer<typeof schema> & { jwtSecret: string; publicUrl: string; dataDir: string };
+export type Config = z.infer<typeof schema> & { jwtSecret: string; jwtPreviousSecrets: string[]; publicUrl: string; dataDir: string };
 
 /** Reads and validates the environment once; names every bad variable and exits fast. */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -66,6 +68,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     ...c,
     dataDir,
     jwtSecret: c.JWT_SECRET ?? persistentSecret('jwt-secret'),
+    jwtPreviousSecrets: c.JWT_PREVIOUS_SECRETS.split(',').map((x) => x.trim()).filter((x) => x.length >= 32),
     publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, ''),
   };
 }

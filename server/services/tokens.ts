@@ -18,14 +18,22 @@ export function signToken(config: Config, userId: number, tokenVersion: number):
   return { token, expiresAt: new Date(exp * 1000).toISOString() };
 }
 
-/** Verifies signature, algorithm, issuer and expiry; returns null for any bad token. */
+/**
+ * Verifies signature, algorithm, issuer and expiry; returns null for any bad token. During a
+ * secret rotation, tokens signed with a secret in JWT_PREVIOUS_SECRETS stay valid until they
+ * expire; new tokens are always signed with JWT_SECRET.
+ */
 export function verifyToken(config: Config, token: string): { userId: number; tokenVersion: number } | null {
-  try {
-    const c = jwt.verify(token, config.jwtSecret, { algorithms: ['HS256'], issuer: 'titrata' }) as unknown as Claims;
-    const userId = Number(c.sub);
-    if (!Number.isInteger(userId)) return null;
-    return { userId, tokenVersion: Number(c.ver ?? 0) };
-  } catch {
-    return null;
+  for (const secret of [config.jwtSecret, ...config.jwtPreviousSecrets]) {
+    try {
+      const c = jwt.verify(token, secret, { algorithms: ['HS256'], issuer: 'titrata' }) as unknown as Claims;
+      const userId = Number(c.sub);
+      if (!Number.isInteger(userId)) return null;
+      return { userId, tokenVersion: Number(c.ver ?? 0) };
+    } catch (err) {
+      // Only a wrong signature may be tried against the next secret; expired is expired.
+      if (!(err instanceof jwt.JsonWebTokenError) || err instanceof jwt.TokenExpiredError || err.message !== 'invalid signature') return null;
+    }
   }
+  return null;
 }

@@ -113,6 +113,23 @@ describe('bearer tokens', () => {
     expect(res.status).toBe(401);
   });
 
+  it('rotates the secret: tokens of the previous secret work until they expire, new ones use the new secret', async () => {
+    const old = await as(app, demo.operator);
+    const rotated = apiTestApp({ JWT_SECRET: 'rotated-secret-rotated-secret-rotated-0001', JWT_PREVIOUS_SECRETS: config.jwtSecret }, sequelize);
+    expect((await request(rotated.app).get('/api/v1/auth/me').set('Authorization', `Bearer ${old.token}`)).status).toBe(200);
+    const fresh = (await request(rotated.app).post('/api/v1/auth/login').send({ email: demo.operator, password: DEMO_PASSWORD })).body.token;
+    // signed with the new secret: the old configuration does not know it
+    expect(jwt.verify(fresh, 'rotated-secret-rotated-secret-rotated-0001')).toBeTruthy();
+    expect((await request(app).get('/api/v1/auth/me').set('Authorization', `Bearer ${fresh}`)).status).toBe(401);
+    // an expired token of the previous secret stays refused
+    const user = await User.findOne({ where: { email: demo.operator } });
+    const expired = jwt.sign({ ver: user!.tokenVersion, exp: Math.floor(Date.now() / 1000) - 60 }, config.jwtSecret, { subject: String(user!.id), issuer: 'titrata' });
+    expect((await request(rotated.app).get('/api/v1/auth/me').set('Authorization', `Bearer ${expired}`)).status).toBe(401);
+    // once the previous secret is dropped, its tokens end
+    const done = apiTestApp({ JWT_SECRET: 'rotated-secret-rotated-secret-rotated-0001' }, sequelize);
+    expect((await request(done.app).get('/api/v1/auth/me').set('Authorization', `Bearer ${old.token}`)).status).toBe(401);
+  });
+
   it('refuses a request without a token', async () => {
     expect((await request(app).get('/api/v1/auth/me')).status).toBe(401);
   });
