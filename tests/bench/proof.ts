@@ -1,0 +1,140 @@
+/**
+ * Benchmarks of the proof issue: HTTP latency of the main routes, API ingest against a raw
+ * batch insert of the same rows, the client's initial download and first paint, and how the
+ * report grows with months of data.
+ */
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { gzipSync } from 'node:zlib';
+import * as mariadb from 'mariadb';
+import { chromium } from 'playwright-core';
+import { QueryTypes } from 'sequelize';
+import { ensureClientBuilt } from '../../server/bin/build-client.js';
+import { dataDir } from '../../server/config.js';
+import { sequelize } from '../../server/db/current.js';
+import { renderReportPdf } from '../../server/services/reportPdf.js';
+import { testConfig, testDbPort } from '../setup/env.js';
+import { load, type HttpResult } from './http.js';
+import { largeMonthContent } from './reports.js';
+
+type Call = (token: string, method: string, url: string, body?: unknown) => Promise<any>;
+
+export function caller(base: string): Call {
+  return async (token, method, url, body) => {
+    const res = await fetch(`${base}/api/v1${url}`, { method, headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) });
+    const json = res.headers.get('content-type')?.includes('json') ? await res.json() : null;
+    if (res.status >= 300) throw new Error(`${method} ${url}: ${res.status} ${JSON.stringify(json)}`);
+    return json;
+  };
+}
+
+/** Titration entry, the Bench list, the compliance month and a report PDF at 1, 10 and 50 connections. */
+export async function mainRoutes(base: string, token: (email: string) => Promise<string>): Promise<HttpResult[]> {
+  const call = caller(base);
+  const operator = await token('operator@kestrelford.example');
+  const officer = await token('compliance@kestrelford.example');
+  const facility = (await call(operator, 'GET', '/facilities')).items[0];
+  const point = (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items.find((p: any) => p.code === 'EFF-001') ?? (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items[0];
+  const titrant = (await call(operator, 'GET', '/titrants?kind=acid')).items[0];
+  const sample = await call(operator, 'POST', '/samples', { pointId: point.id, sampleType: 'grab', collectedAt: new Date(Date.now() - 3_600_000).toISOString() });
+  const month = new Date(Date.UTC(new Date().getUTCFullYear(), new Date().getUTCMonth() - 1, 1)).toISOString().slice(0, 7);
+  const report = (await call(officer, 'GET', `/reports?facilityId=${facility.id}&status=draft`)).items[0] ?? (await call(officer, 'POST', '/reports', { facilityId: facility.id, month }));
+  const out: HttpResult[] = [];
+  const titration = { analysis: 'alkalinity', method: 'color_indicator', sampleVolumeMl: 100, titrantId: titrant.id, volumeToPh83Ml: 0, volumeToTotalEndpointMl: 6.2, totalEndpointPh: 4.5, analysedAt: new Date().toISOString() };
+  for (const connections of [1, 10, 50]) {
+    out.push(await load('POST /samples/:id/titrations (entry)', { url: `${base}/api/v1/samples/${sample.id}/titrations`, method: 'POST', token: operator, connections, duration: 3, body: titration }));
+    out.push(await load('GET /samples (Bench list, page 1)', { url: `${base}/api/v1/samples?page=1&pageSize=25`, token: operator, connections, duration: 3 }));
+    out.push(await load('GET /compliance (facility month)', { url: `${base}/api/v1/compliance?facilityId=${facility.id}&month=${month}`, token: officer, connections, duration: 3 }));
+    out.push(await load('GET /reports/:id/pdf (draft, rendered)', { url: `${base}/api/v1/reports/${report.id}/pdf`, token: officer, connections, duration: 3 }));
+  }
+  return out;
+}
+
+/**
+ * Titration ingest through the API (10 clients, sample + titration per row) against a raw
+ * batch insert of the same stored rows with the `mariadb` connector into a copy of the table.
+ */
+export async function ingestRatio(base: string, token: (email: string) => Promise<string>, rows = 1000) {
+  const call = caller(base);
+  const operator = await token('operator@kestrelford.example');
+  const facility = (await call(operator, 'GET', '/facilities')).items[0];
+  const points = (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items;
+  const titrant = (await call(operator, 'GET', '/titrants?kind=acid')).items[0];
+  const ids: number[] = [];
+  let next = 0;
+  const t0 = performance.now();
+  await Promise.all(
+    Array.from({ length: 10 }, async () => {
+      for (;;) {
+        const i = next++;
+        if (i >= rows) return;
+        const at = new Date(Date.now() - (200 + (i % 100)) * 86_400_000);
+        const s = await call(operator, 'POST', '/samples', { pointId: points[i % points.length].id, sampleType: 'grab', collectedAt: at.toISOString(), receivedAt: at.toISOString(), receiptTemperatureC: 4 });
+        const t = await call(operator, 'POST', `/samples/${s.id}/titrations`, { analysis: 'alkalinity', method: 'color_indicator', sampleVolumeMl: 100, titrantId: titrant.id, volumeToPh83Ml: 0, volumeToTotalEndpointMl: 5 + (i % 50) / 10, totalEndpointPh: 4.5, analysedAt: new Date(at.getTime() + 3_600_000).toISOString() });
+        ids.push(Number(t.id));
+      }
+    }),
+  );
+  const apiSeconds = (performance.now() - t0) / 1000;
+
+  const sq = sequelize();
+  const cols = (await sq.query<{ c: string }>("SELECT COLUMN_NAME AS c FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = 'titrations' AND COLUMN_NAME <> 'id' ORDER BY ORDINAL_POSITION", { type: QueryTypes.SELECT })).map((r) => r.c);
+  const config = testConfig('titrata_bench');
+  const conn = await mariadb.createConnection({ host: '127.0.0.1', port: testDbPort, user: config.DB_USER, password: config.DB_PASSWORD, database: config.DB_NAME });
+  try {
+    await conn.query('DROP TABLE IF EXISTS titrations_raw');
+    await conn.query('CREATE TABLE titrations_raw LIKE titrations');
+    const stored = (await conn.query({ sql: `SELECT ${cols.map((c) => `\`${c}\``).join(',')} FROM titrations WHERE id IN (?)`, rowsAsArray: true }, [ids])) as unknown[][];
+    const t1 = performance.now();
+    await conn.beginTransaction();
+    await conn.batch(`INSERT INTO titrations_raw (${cols.map((c) => `\`${c}\``).join(',')}) VALUES (${cols.map(() => '?').join(',')})`, stored.map((r) => r.map((v) => (v !== null && typeof v === 'object' && !(v instanceof Date) && !Buffer.isBuffer(v) ? JSON.stringify(v) : v))));
+    await conn.commit();
+    const rawSeconds = (performance.now() - t1) / 1000;
+    await conn.query('DROP TABLE titrations_raw');
+    const apiRate = rows / apiSeconds;
+    const rawRate = stored.length / rawSeconds;
+    return { rows, apiPerSecond: Math.round(apiRate), rawPerSecond: Math.round(rawRate), ratio: Math.round((apiRate / rawRate) * 1000) / 1000, note: 'API rows each make a sample and a titration (two requests, validation, engine, audit); raw rows are one batched INSERT' };
+  } finally {
+    await conn.end();
+  }
+}
+
+/** The client's initial JavaScript and CSS (gzip) as index.html loads them, and first paint in Chromium. */
+export async function clientWeight(base: string) {
+  await ensureClientBuilt();
+  const dir = path.join(dataDir, 'client');
+  const html = readFileSync(path.join(dir, 'index.html'), 'utf8');
+  const refs = [...html.matchAll(/(?:src|href)="(\/[^"]+\.(js|css))"/g)].map((m) => ({ file: m[1], kind: m[2] }));
+  const size = (kind: string) => refs.filter((r) => r.kind === kind).reduce((n, r) => n + gzipSync(readFileSync(path.join(dir, r.file))).length, 0);
+  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: ['--headless', '--no-sandbox', '--disable-gpu'] });
+  const paints: number[] = [];
+  try {
+    for (let i = 0; i < 5; i++) {
+      const page = await browser.newPage();
+      await page.goto(`${base}/sign-in`, { waitUntil: 'load' });
+      await page.locator('#email').waitFor();
+      paints.push(await page.evaluate(() => performance.getEntriesByName('first-contentful-paint')[0]?.startTime ?? NaN));
+      await page.close();
+    }
+  } finally {
+    await browser.close();
+  }
+  paints.sort((a, b) => a - b);
+  return { files: refs.length, jsGzipKiB: Math.round(size('js') / 102.4) / 10, cssGzipKiB: Math.round(size('css') / 102.4) / 10, firstContentfulPaintMs: Math.round(paints[2]) };
+}
+
+/** Report rendering for 1, 12 and 60 months: ms per month should stay flat (linear growth). */
+export async function reportGrowth() {
+  const base = largeMonthContent();
+  // a typical month: 4 points × 2 parameters
+  const content = { ...base, limits: base.limits.slice(0, 8), daily: base.daily.slice(0, 8) };
+  await renderReportPdf(content);
+  const out: { months: number; totalMs: number; msPerMonth: number }[] = [];
+  for (const months of [1, 12, 60]) {
+    const t0 = performance.now();
+    for (let m = 0; m < months; m++) await renderReportPdf({ ...content, month: `20${String(20 + Math.floor(m / 12)).padStart(2, '0')}-${String((m % 12) + 1).padStart(2, '0')}` });
+    const totalMs = performance.now() - t0;
+    out.push({ months, totalMs: Math.round(totalMs), msPerMonth: Math.round((totalMs / months) * 10) / 10 });
+  }
+  return out;
+}
