@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { alkalinityFromReadings } from '../../shared/chemistry/bench.js';
+import { alkalinityFromReadings, BENCH_READINGS_LIMIT } from '../../shared/chemistry/bench.js';
 import { carbonateWaterModel, modelCurve } from '../../shared/chemistry/curve.js';
 import { Dec } from '../../shared/chemistry/decimal.js';
 import { derivativeSeries } from '../../shared/chemistry/endpoints.js';
@@ -87,6 +87,17 @@ describe('POST /titrations/:id/readings (CSV upload of a recorded curve)', () =>
     const trail = (await (await as(app, demo.analyst)).get(`/api/v1/titrations/${draft.id}/audit?sort=-createdAt&pageSize=1`)).body.items[0];
     expect(trail.action).toBe('titration.readings_replaced');
     expect(trail.before.readings).toHaveLength(5000);
+  });
+
+  it('refuses more rows than BENCH_READINGS_LIMIT with 400 naming the limit, and keeps the old readings', async () => {
+    const draft = await curveDraft();
+    const ok = await upload(draft.id, readingsCsv(synthetic), { version: draft.version });
+    expect(ok.status).toBe(200);
+    const rows = Array.from({ length: BENCH_READINGS_LIMIT + 1 }, (_, i) => [Math.round(i * 0.001 * 1000) / 1000, 9] as [number, number]);
+    const big = await upload(draft.id, readingsCsv(rows));
+    expect(big.status, JSON.stringify(big.body).slice(0, 300)).toBe(400);
+    expect(JSON.stringify(big.body.error)).toContain(String(BENCH_READINGS_LIMIT));
+    expect((await (await as(app, demo.analyst)).get(`/api/v1/titrations/${draft.id}`)).body.readingCount).toBe(39);
   });
 
   it('answers a bad value 400 naming its line and column, and stores nothing', async () => {
