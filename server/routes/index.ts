@@ -3,6 +3,7 @@ import type { AppDeps } from '../app.js';
 import { authenticate } from '../middleware/authenticate.js';
 import { auditRoutes } from './audit.js';
 import { authRoutes } from './auth.js';
+import { billingRoutes } from './billing.js';
 import { calcRoutes } from './calc.js';
 import { complianceRoutes } from './compliance.js';
 import { healthRoutes } from './health.js';
@@ -32,5 +33,6 @@ export function apiRouter(deps: AppDeps): Router {
   sampleRoutes(r);
   titrationRoutes(r, deps.config);
   labQcRoutes(r);
+  billingRoutes(r);
   return r.router;
 }
