@@ -128,6 +128,19 @@ describe('money in integer cents (common practice)', () => {
   });
 });
 
+describe('demo billing data', () => {
+  it('gives Kestrel Ford paid, overdue and open invoices, and the lab a price list', async () => {
+    const payer = await as(ctx.app, demo.billing);
+    const mine = (await payer.get('/api/v1/invoices?pageSize=50')).body.items as { state: string; organizationName: string; totalCents: number }[];
+    expect(new Set(mine.map((i) => i.state))).toEqual(new Set(['paid', 'overdue', 'open']));
+    expect(mine.every((i) => i.organizationName === 'Kestrel Ford Sanitary District' && i.totalCents > 0)).toBe(true);
+    const admin = await as(ctx.app, demo.admin);
+    expect((await admin.get('/api/v1/invoices?state=draft')).body.total).toBeGreaterThanOrEqual(1);
+    const prices = (await admin.get('/api/v1/price-items?pageSize=50')).body.items as { kind: string; clientName: string | null }[];
+    expect(prices.filter((p) => p.clientName === null).map((p) => p.kind).sort()).toEqual(['acidity', 'alkalinity', 'rush', 'speciation']);
+  });
+});
+
 describe('invoices from approved analyses', () => {
   it('bills each sample once per kind at the client’s price, exact in cents, with the samples behind each line', async () => {
     // setup: 3 alkalinity, 2 full speciation (initial pH given), 1 of them rushed

@@ -2,6 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config.js';
 import { initModels } from '../models/index.js';
 import { seedBench } from './bench.js';
+import { seedBilling } from './billing.js';
 import { seedIdentity } from './identity.js';
 import { seedCompliance, seedPermits } from './permits.js';
 
@@ -25,6 +26,7 @@ const steps: SeedStep[] = [
   { key: 'bench', run: seedBench },
   { key: 'permits', run: seedPermits },
   { key: 'compliance', run: seedCompliance, ownTransactions: true },
+  { key: 'billing', run: seedBilling, ownTransactions: true },
 ];
 
 /**
