@@ -273,10 +273,15 @@ export async function getInvoice(actor: Actor, id: number) {
 
 // ---- invoices: generate, finalise, void ---------------------------------------------------
 
-/** What an approved titration is billed as: acidity, full speciation (pH given), or alkalinity. */
+/**
+ * What an approved titration is billed as: acidity; full carbonate speciation when the inputs of
+ * the equilibrium split were measured (initial pH and an ionic-strength figure, TDS or
+ * conductance); otherwise alkalinity (P and T, with the species from P and T).
+ */
 function billingKindOf(t: Titration): BillingKind {
   if (t.analysis === 'acidity') return 'acidity';
-  return t.initialPh !== null && t.initialPh !== undefined ? 'speciation' : 'alkalinity';
+  const has = (v: string | null | undefined) => v !== null && v !== undefined;
+  return has(t.initialPh) && (has(t.tdsMgL) || has(t.specificConductanceUsCm)) ? 'speciation' : 'alkalinity';
 }
 
 const dayOf = (d: Date) => d.toISOString().slice(0, 10);
@@ -295,7 +300,7 @@ export async function generateInvoice(actor: Actor, input: InvoiceGenerateInput)
     const to = new Date(`${addDays(input.periodEnd, 1)}T00:00:00Z`);
     const titrations = await Titration.findAll({
       where: { organizationId: org.id, status: 'approved', analysedAt: { [Op.gte]: from, [Op.lt]: to } },
-      attributes: ['id', 'sampleId', 'analysis', 'initialPh', 'analysedAt'],
+      attributes: ['id', 'sampleId', 'analysis', 'initialPh', 'tdsMgL', 'specificConductanceUsCm', 'analysedAt'],
       order: [['analysedAt', 'ASC'], ['id', 'ASC']],
       transaction: t,
     });

@@ -41,7 +41,7 @@ afterAll(async () => {
 const day = (daysAgo: number) => dayjs().subtract(daysAgo, 'day').format('YYYY-MM-DD');
 let userSeq = 0;
 
-/** An approved result on `pointId`: sample, titration (alkalinity; with initialPh it is a full speciation), submitted and approved. */
+/** An approved result on `pointId`: sample, titration (alkalinity; with initial pH and TDS or conductance, a full speciation), submitted and approved. */
 async function approvedResult(pointId: number, daysAgo: number, titration: Record<string, unknown> = {}) {
   const analyst = await as(ctx.app, demo.analyst);
   const { sample, titration: draft } = await makeResult(ctx.app, demo.analyst, { pointId, titrantId, analysedAt: dayjs().subtract(daysAgo, 'day').hour(10), titreMl: 10, titration });
@@ -143,11 +143,11 @@ describe('demo billing data', () => {
 
 describe('invoices from approved analyses', () => {
   it('bills each sample once per kind at the client’s price, exact in cents, with the samples behind each line', async () => {
-    // setup: 3 alkalinity, 2 full speciation (initial pH given), 1 of them rushed
+    // setup: 3 alkalinity (one with a pH but no ionic strength), 2 full speciation (pH and TDS or conductance), 1 rushed
     const c = await client();
     const admin = await as(ctx.app, demo.admin);
-    const alk = [await approvedResult(c.pointId, 5), await approvedResult(c.pointId, 6), await approvedResult(c.pointId, 7)];
-    const spec = [await approvedResult(c.pointId, 8, { initialPh: 8.1, temperatureC: 20 }), await approvedResult(c.pointId, 9, { initialPh: 7.9, temperatureC: 20 })];
+    const alk = [await approvedResult(c.pointId, 5), await approvedResult(c.pointId, 6, { initialPh: 8.0, temperatureC: 20 }), await approvedResult(c.pointId, 7)];
+    const spec = [await approvedResult(c.pointId, 8, { initialPh: 8.1, temperatureC: 20, tdsMgL: 240 }), await approvedResult(c.pointId, 9, { initialPh: 7.9, temperatureC: 20, specificConductanceUsCm: 410 })];
     // a result still in draft is not billed
     await makeResult(ctx.app, demo.analyst, { pointId: c.pointId, titrantId, analysedAt: dayjs().subtract(4, 'day'), titreMl: 10 });
 

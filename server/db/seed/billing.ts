@@ -4,7 +4,8 @@ import { audit, snapshot } from '../../services/audit.js';
 import { createPriceItem, finaliseInvoice, generateInvoice, setBillingConfig } from '../../services/billing.js';
 import { ValidationError } from '../../errors.js';
 import { setSequelize } from '../current.js';
-import { Invoice, Organization, User } from '../models/index.js';
+import { Op } from 'sequelize';
+import { Invoice, Organization, Titration, User } from '../models/index.js';
 import type { SeedStep } from './index.js';
 
 /**
@@ -38,9 +39,18 @@ export const seedBilling: SeedStep['run'] = async ({ sequelize, config }) => {
   };
   const firstOf = (monthsAgo: number) => dayjs().subtract(monthsAgo, 'month').startOf('month').format('YYYY-MM-DD');
 
-  const invoice = async (clientId: number, monthsAgo: number) => {
+  const invoice = async (clientId: number, monthsAgo: number, rushCount = 0) => {
+    const period = month(monthsAgo);
+    // The first few samples of the month came in on rush turnaround.
+    const rushed = rushCount
+      ? await Titration.findAll({
+          where: { organizationId: clientId, status: 'approved', analysedAt: { [Op.gte]: new Date(`${period.periodStart}T00:00:00Z`), [Op.lte]: new Date(`${period.periodEnd}T23:59:59Z`) } },
+          order: [['analysedAt', 'ASC']],
+          limit: rushCount,
+        })
+      : [];
     try {
-      return await generateInvoice(admin, { organizationId: clientId, ...month(monthsAgo), rushSampleIds: [], notes: null });
+      return await generateInvoice(admin, { organizationId: clientId, ...period, rushSampleIds: [...new Set(rushed.map((r) => r.sampleId))], notes: null });
     } catch (err) {
       // Nothing approved in that month for this client: no invoice. Anything else is a bug.
       if (err instanceof ValidationError && err.fields && 'periodStart' in err.fields) return null;
@@ -64,7 +74,7 @@ export const seedBilling: SeedStep['run'] = async ({ sequelize, config }) => {
   }
   const k2 = await invoice(kestrel.id, 2);
   if (k2) await finaliseInvoice(admin, k2.id, { termsDays: 14, issuedOn: firstOf(1) });
-  const k1 = await invoice(kestrel.id, 1);
+  const k1 = await invoice(kestrel.id, 1, 2);
   if (k1) await finaliseInvoice(admin, k1.id, { termsDays: 30, issuedOn: dayjs().format('YYYY-MM-DD') });
 
   // Brindlemoor: two months ago paid, last month open.
