@@ -128,6 +128,15 @@ describe('money in integer cents (common practice)', () => {
   });
 });
 
+describe('OpenAPI description of billing', () => {
+  it('documents the billing routes with their access rules and request bodies', async () => {
+    const doc = (await request(ctx.app).get('/api/v1/openapi.json')).body;
+    expect(doc.paths['/invoices/{id}/checkout'].post).toMatchObject({ 'x-titrata-access': 'billing.pay' });
+    expect(doc.paths['/payments/webhook'].post).toMatchObject({ 'x-titrata-access': 'public', security: [] });
+    expect(doc.paths['/invoices'].post.requestBody.content['application/json'].schema.required).toEqual(expect.arrayContaining(['organizationId', 'periodStart', 'periodEnd']));
+  });
+});
+
 describe('demo billing data', () => {
   it('gives Kestrel Ford paid, overdue and open invoices, and the lab a price list', async () => {
     const payer = await as(ctx.app, demo.billing);
