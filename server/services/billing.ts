@@ -490,7 +490,7 @@ export async function receiptPdfFor(actor: Actor, id: number) {
 // ---- paying -------------------------------------------------------------------------------
 
 /** The provider's customer for a client, created once (an idempotency key covers a retried create). */
-async function customerFor(org: Organization): Promise<string> {
+async function customerFor(actor: Actor, org: Organization): Promise<string> {
   const existing = await BillingAccount.findOne({ where: { organizationId: org.id } });
   if (existing) return existing.providerCustomerId;
   const email = (await billingRecipients(org.id))[0];
@@ -498,7 +498,10 @@ async function customerFor(org: Organization): Promise<string> {
     payments().customers.create({ name: org.name, ...(email ? { email } : {}), metadata: { organization_id: String(org.id) } }, { idempotencyKey: `titrata-customer-org-${org.id}` }),
   );
   try {
-    await BillingAccount.create({ organizationId: org.id, providerCustomerId: customer.id });
+    await inTransaction(undefined, async (t) => {
+      const account = await BillingAccount.create({ organizationId: org.id, providerCustomerId: customer.id }, { transaction: t });
+      await audit(actor, { action: 'billing_account.create', entity: 'billing_account', entityId: account.id, organizationId: org.id, after: snapshot(account) }, t);
+    });
   } catch (err) {
     if (!(err instanceof UniqueConstraintError)) throw err;
   }
@@ -520,7 +523,7 @@ export async function startCheckout(actor: Actor, id: number): Promise<{ url: st
   }
   const full = await loadFull(inv.id);
   const org = full.organization!;
-  const customer = await customerFor(org);
+  const customer = await customerFor(actor, org);
   const base = config().publicUrl;
   const metadata = { invoice_id: String(inv.id), invoice_number: inv.number ?? '' };
   const session = await provider('open a payment page', () =>
@@ -721,7 +724,9 @@ async function applyEvent(event: Stripe.Event, t: Transaction): Promise<{ invoic
       break;
     case 'checkout.session.expired':
       if (inv.checkoutSessionId === o.id) {
+        const before = snapshot(inv);
         await inv.update({ checkoutSessionId: null }, { transaction: t });
+        await audit(null, { action: 'invoice.checkout_expired', entity: 'invoice', entityId: inv.id, organizationId: inv.organizationId, before, after: snapshot(inv) }, t);
         outcome = 'page_expired';
       }
       break;
