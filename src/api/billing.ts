@@ -64,6 +64,7 @@ export const billingApi = {
   finalise: (id: number, body: object) => api.post<InvoiceDto>(`/invoices/${id}/finalise`, body),
   void: (id: number, reason: string) => api.post<InvoiceDto>(`/invoices/${id}/void`, { reason }),
   refund: (id: number, reason: string) => api.post<InvoiceDto>(`/invoices/${id}/refund`, { reason }),
+  events: (id: number) => api.get<Page<{ eventId: string; type: string; outcome: string; at: string | null }>>(`/invoices/${id}/events`),
   checkout: (id: number) => api.post<{ url: string }>(`/invoices/${id}/checkout`),
   pdf: (inv: InvoiceDto) => download(`/invoices/${inv.id}/pdf`, `${inv.number ?? `draft-${inv.id}`}.pdf`),
   receipt: (inv: InvoiceDto) => download(`/invoices/${inv.id}/receipt`, `receipt-${inv.number}.pdf`),

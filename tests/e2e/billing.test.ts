@@ -25,13 +25,13 @@ describe('Billing: paying an invoice online', () => {
 
     await page.locator('nav[aria-label="Main"] [data-area="billing"]').click();
     const table = page.locator('[data-test="invoices-table"]');
-    await table.getByText('Awaiting payment').first().waitFor();
+    await table.locator('[data-state="open"]').first().waitFor();
     expect(await table.innerText()).toContain('Paid');
     expect(await table.innerText()).toContain('Overdue');
     await screenshot(page, 'billing-invoices-payer');
 
     // open the invoice awaiting payment
-    await table.locator('tr', { hasText: 'Awaiting payment' }).first().getByRole('link').click();
+    await table.locator('tr', { has: page.locator('[data-state="open"]') }).first().getByRole('link').click();
     await page.locator('[data-test="invoice-lines"]').waitFor();
     const total = (await page.locator('[data-test="invoice-total"]').innerText()).trim();
     expect(total).toMatch(/^\$[\d,]+\.\d{2}$/);
@@ -69,9 +69,10 @@ describe('Billing: paying an invoice online', () => {
     await signIn(page, baseUrl, 'admin@marrowfield.example');
     await page.locator('nav[aria-label="Main"] [data-area="billing"]').click();
     const table = page.locator('[data-test="invoices-table"]');
-    await table.getByText('Draft').first().waitFor();
+    await table.locator('[data-state="draft"]').first().waitFor();
+    await table.locator('[data-state="overdue"]').first().waitFor();
     await screenshot(page, 'billing-invoices-lab');
-    await table.locator('tr', { hasText: 'Draft' }).first().getByRole('link').click();
+    await table.locator('tr', { has: page.locator('[data-state="draft"]') }).first().getByRole('link').click();
     await page.locator('[data-test="finalise"]').click();
     await page.locator('[data-test="finalise-confirm"]').click();
     await page.locator('[data-test="invoice-state"]').getByText('Awaiting payment').waitFor();
