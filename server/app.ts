@@ -12,6 +12,8 @@ import { setSequelize } from './db/current.js';
 import { initModels } from './db/models/index.js';
 import { apiRouter } from './routes/index.js';
 import { setComplianceConfig } from './services/compliance.js';
+import { setBillingConfig } from './services/billing.js';
+import { PAYMENTS_WEBHOOK_PATH } from './routes/billing.js';
 
 export interface AppDeps {
   config: Config;
@@ -25,6 +27,7 @@ export function createApp(deps: AppDeps): Express {
   initModels(deps.sequelize);
   setSequelize(deps.sequelize);
   setComplianceConfig(deps.config);
+  setBillingConfig(deps.config);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -62,6 +65,9 @@ export function createApp(deps: AppDeps): Express {
       },
     }),
   );
+  // The payment webhook's signature covers the exact bytes sent, so it gets the raw body and the
+  // JSON parser (which skips a body already read) never touches it.
+  app.use(`/api/v1${PAYMENTS_WEBHOOK_PATH}`, express.raw({ type: () => true, limit: '1mb' }));
   app.use('/api', express.json({ limit: config.JSON_LIMIT }));
   app.use('/api/v1', apiRouter(deps));
   app.use('/api', apiNotFound);

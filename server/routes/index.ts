@@ -3,6 +3,7 @@ import type { AppDeps } from '../app.js';
 import { authenticate } from '../middleware/authenticate.js';
 import { auditRoutes } from './audit.js';
 import { authRoutes } from './auth.js';
+import { billingRoutes } from './billing.js';
 import { calcRoutes } from './calc.js';
 import { complianceRoutes } from './compliance.js';
 import { healthRoutes } from './health.js';
@@ -34,5 +35,6 @@ export function apiRouter(deps: AppDeps): Router {
   titrationRoutes(r, deps.config);
   labQcRoutes(r);
   reportRoutes(r);
+  billingRoutes(r);
   return r.router;
 }

@@ -15,6 +15,7 @@ import {
   nitrificationRequestSchema,
   tocRemovalRequestSchema,
 } from '../../shared/schemas/tools.js';
+import { invoiceFinaliseSchema, invoiceGenerateSchema, invoiceRefundSchema, invoiceVoidSchema, priceItemSchema, priceItemUpdateSchema } from '../../shared/schemas/billing.js';
 import { routeTable, type RouteBuilder } from './registry.js';
 
 const errorSchema = {
@@ -96,14 +97,33 @@ function jsonSchema(schema: z.ZodType) {
   return z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' });
 }
 
+/** Billing routes: what each does, and its request body where it has one. Money is integer cents. */
+const billingDocs: Record<string, { summary: string; schema?: z.ZodType }> = {
+  'GET /price-items': { summary: 'The lab’s price list and client overrides (unitAmountCents, currency, effectiveFrom/To); filter by kind, clientId' },
+  'POST /price-items': { summary: 'Add a list price (clientId null) or a client’s own price, in effect from a date', schema: priceItemSchema },
+  'PATCH /price-items/:id': { summary: 'Change a price’s wording, amount or end date, or withdraw it', schema: priceItemUpdateSchema },
+  'GET /invoices': { summary: 'Invoices in scope, with state (draft, open, overdue, paid, void, refunded); filter by state (also unpaid), organizationId' },
+  'POST /invoices': { summary: 'Make a draft invoice for a client and period from its approved, unbilled analyses (one line per kind and price: count × unit price)', schema: invoiceGenerateSchema },
+  'GET /invoices/:id': { summary: 'One invoice with its lines and the samples behind each line' },
+  'GET /invoices/:id/events': { summary: 'The payment-service events applied to an invoice and what each changed' },
+  'POST /invoices/:id/finalise': { summary: 'Issue a draft: number, issue date, due date after termsDays; e-mailed with its PDF', schema: invoiceFinaliseSchema },
+  'POST /invoices/:id/void': { summary: 'Void a draft or unpaid invoice with a reason', schema: invoiceVoidSchema },
+  'POST /invoices/:id/refund': { summary: 'Refund a paid invoice in full through the payment service', schema: invoiceRefundSchema },
+  'POST /invoices/:id/checkout': { summary: 'The invoice’s own utility starts paying: answers {url} of the hosted payment page' },
+  'GET /invoices/:id/pdf': { summary: 'The invoice as PDF' },
+  'GET /invoices/:id/receipt': { summary: 'The receipt of a paid invoice as PDF' },
+  'POST /payments/webhook': { summary: 'Payment-service events, signed (Stripe-Signature header over the raw body); a repeated event id changes nothing' },
+};
+
 /** The OpenAPI 3.1 description: calculation routes in full, every other route listed with its access rule. */
 export function openApiDocument() {
   const paths: Record<string, Record<string, unknown>> = {};
   for (const r of routeTable.values()) {
     const path = r.path.replace(/:(\w+)/g, '{$1}');
     const calc = calcDocs[r.path];
+    const billing = billingDocs[`${r.method.toUpperCase()} ${r.path}`];
     const op: Record<string, unknown> = {
-      summary: calc?.summary ?? `${r.method.toUpperCase()} ${r.path}`,
+      summary: calc?.summary ?? billing?.summary ?? `${r.method.toUpperCase()} ${r.path}`,
       ...(calc ? { description: calc.description } : {}),
       security: r.rule === 'public' ? [] : [{ bearer: [] }],
       'x-titrata-access': r.rule,
@@ -115,6 +135,7 @@ export function openApiDocument() {
       },
     };
     if (calc) op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(calc.schema) } } };
+    if (billing?.schema) op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(billing.schema) } } };
     if (r.path === '/auth/login') op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(loginSchema) } } };
     (paths[path] ??= {})[r.method] = op;
   }

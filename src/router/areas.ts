@@ -84,6 +84,18 @@ export const areas: Area[] = [
     ],
   },
   {
+    key: 'billing',
+    label: 'Billing',
+    icon: 'pi pi-wallet',
+    path: '/billing',
+    capability: 'billing.read',
+    routes: [
+      { path: 'billing', name: 'billing', component: () => import('@/views/billing/BillingView.vue') },
+      { path: 'billing/prices', name: 'billing-prices', component: () => import('@/views/billing/PricesView.vue') },
+      { path: 'billing/invoices/:id', name: 'invoice', component: () => import('@/views/billing/InvoiceView.vue'), props: true },
+    ],
+  },
+  {
     key: 'tools',
     label: 'Tools',
     icon: 'pi pi-calculator',

@@ -15,6 +15,8 @@ import { Standardization } from './Standardization.js';
 import { Titrant } from './Titrant.js';
 import { Titration } from './Titration.js';
 import { TitrationReading } from './TitrationReading.js';
+import { Invoice, InvoiceLine, InvoiceLineSample } from './Invoice.js';
+import { PriceItem } from './PriceItem.js';
 
 /** Every association in one place. */
 export function associate() {
@@ -56,4 +58,12 @@ export function associate() {
   for (const as of ['analyst', 'submittedBy', 'approvedBy', 'returnedBy', 'createdBy'] as const) Titration.belongsTo(User, { as, foreignKey: `${as}Id` });
   QcBatch.belongsTo(User, { as: 'analyst', foreignKey: 'analystId' });
   QcBatch.hasMany(Titration, { as: 'titrations', foreignKey: 'qcBatchId' });
+
+  // Billing
+  PriceItem.belongsTo(Organization, { as: 'client', foreignKey: 'clientId' });
+  Invoice.belongsTo(Organization, { as: 'organization', foreignKey: 'organizationId' });
+  Invoice.hasMany(InvoiceLine, { as: 'lines', foreignKey: 'invoiceId' });
+  InvoiceLine.belongsTo(Invoice, { as: 'invoice', foreignKey: 'invoiceId' });
+  InvoiceLine.hasMany(InvoiceLineSample, { as: 'samples', foreignKey: 'lineId' });
+  InvoiceLineSample.belongsTo(Sample, { as: 'sample', foreignKey: 'sampleId' });
 }

@@ -18,11 +18,17 @@ import { Standardization } from './Standardization.js';
 import { Titrant } from './Titrant.js';
 import { Titration } from './Titration.js';
 import { TitrationReading } from './TitrationReading.js';
+import { BillingAccount } from './BillingAccount.js';
+import { Invoice, InvoiceLine, InvoiceLineSample } from './Invoice.js';
+import { InvoiceCounter } from './InvoiceCounter.js';
+import { PaymentEvent } from './PaymentEvent.js';
+import { PriceItem } from './PriceItem.js';
 import { associate } from './associations.js';
 
 export { Exceedance, Notice, ProjectionAlert, Report, ReportBatch };
 export { AuditEvent, Facility, MonitoringPoint, Organization, OutboxAttachment, OutboxMessage, Permit, PermitLimit, User };
 export { MeterCalibration, QcBatch, Sample, Standardization, Titrant, Titration, TitrationReading };
+export { BillingAccount, Invoice, InvoiceCounter, InvoiceLine, InvoiceLineSample, PaymentEvent, PriceItem };
 
 const initialised = new WeakSet<Sequelize>();
 
@@ -47,6 +53,7 @@ export function initModels(sequelize: Sequelize) {
   ];
   for (const m of models) m.initModel(sequelize);
   for (const m of [Titrant, Standardization, MeterCalibration, Sample, QcBatch, Titration, TitrationReading]) m.initModel(sequelize);
+  for (const m of [PriceItem, BillingAccount, InvoiceCounter, Invoice, InvoiceLine, InvoiceLineSample, PaymentEvent]) m.initModel(sequelize);
   associate();
   initialised.add(sequelize);
 }

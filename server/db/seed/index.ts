@@ -2,6 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config.js';
 import { initModels } from '../models/index.js';
 import { seedBench } from './bench.js';
+import { seedBilling } from './billing.js';
 import { seedIdentity } from './identity.js';
 import { seedCompliance, seedPermits } from './permits.js';
 import { seedReports } from './reports.js';
@@ -27,6 +28,7 @@ const steps: SeedStep[] = [
   { key: 'permits', run: seedPermits },
   { key: 'compliance', run: seedCompliance, ownTransactions: true },
   { key: 'reports', run: seedReports, ownTransactions: true },
+  { key: 'billing', run: seedBilling, ownTransactions: true },
 ];
 
 /**
