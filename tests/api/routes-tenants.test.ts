@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAPABILITIES, type Role } from '../../shared/roles.js';
 import { routeTable, type RouteInfo } from '../../server/routes/registry.js';
-import { Exceedance, Facility, MonitoringPoint, Organization, Permit, PermitLimit, Report, Sample, Titration } from '../../server/db/models/index.js';
+import { Exceedance, Facility, Invoice, MonitoringPoint, Organization, Permit, PermitLimit, Report, Sample, Titration } from '../../server/db/models/index.js';
 import { as, demo, tokenFor } from '../fixtures/auth.js';
 import { apiTestApp } from '../setup/db.js';
 
@@ -18,7 +18,7 @@ afterAll(() => sequelize.close());
 /** The first path segment → the id of a Kestrel Ford record of that kind (filled in beforeAll). */
 const victim: Record<string, number> = {};
 /** Resources with ids that belong to no utility: lab records, users, per-user jobs. */
-const notUtilityOwned = new Set(['calibrations', 'qc-batches', 'titrants', 'users', 'public']);
+const notUtilityOwned = new Set(['calibrations', 'qc-batches', 'titrants', 'users', 'public', 'price-items']);
 const tokens: Partial<Record<Role, string>> = {};
 let labTokens: Record<'lab_admin' | 'analyst', string>;
 
@@ -33,6 +33,7 @@ beforeAll(async () => {
   const sample = (await Sample.findOne({ where: { organizationId: kf!.id } }))!;
   const titration = (await Titration.findOne({ where: { sampleId: sample.id } }))!;
   const exceedance = (await Exceedance.findOne({ where: { facilityId: facility.id } }))!;
+  const invoice = (await Invoice.findOne({ where: { organizationId: kf!.id, status: 'paid' } }))!;
   let report = await Report.findOne({ where: { facilityId: facility.id } });
   const kfOfficer = await as(app, demo.compliance);
   if (!report) report = (await kfOfficer.post('/api/v1/reports', { facilityId: facility.id, month: '2026-01' })).body;
@@ -40,7 +41,7 @@ beforeAll(async () => {
   const batch = await kfOfficer.post('/api/v1/report-batches', { facilityIds: [facility.id], year: 2019 + 1 });
   Object.assign(victim, {
     organizations: kf!.id, facilities: facility.id, points: point.id, permits: permit.id, limits: limit.id, samples: sample.id, titrations: titration.id, exceedances: exceedance.id, reports: report!.id,
-    'projection-alerts': alert.body.id, 'report-batches': batch.body.id,
+    invoices: invoice.id, 'projection-alerts': alert.body.id, 'report-batches': batch.body.id,
   });
   for (const v of Object.values(victim)) expect(Number(v)).toBeGreaterThan(0);
 
