@@ -24,6 +24,8 @@ export const benchApi = {
   createSample: (body: object) => api.post<SampleView>('/samples', body),
   updateSample: (id: number, body: object) => api.patch<SampleView>(`/samples/${id}`, body),
 
+  /** A daily-grid row: sample + titration (+ submit), all or nothing. */
+  createEntry: (body: object) => api.post<{ sample: SampleView; titration: TitrationView }>('/bench/entries', body),
   createTitration: (sampleId: number, body: object) => api.post<TitrationView>(`/samples/${sampleId}/titrations`, body),
   titration: (id: number) => api.get<TitrationDetail>(`/titrations/${id}`),
   updateTitration: (id: number, body: object) => api.patch<TitrationView>(`/titrations/${id}`, body),

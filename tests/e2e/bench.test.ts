@@ -96,3 +96,52 @@ describe('Bench: log a sample and a curve titration, then approve it from Review
     expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
   });
 });
+
+describe('Bench: the daily entry grid', () => {
+  it('operator enters two points by keyboard, sees P and T per row, and saves all in one go', async () => {
+    const { page } = b;
+    await signIn(page, baseUrl, 'operator@kestrelford.example');
+    await page.locator('nav[aria-label="Main"] [data-area="bench"]').click();
+    await page.locator('[data-test="open-grid"]').click();
+    await page.locator('[data-test="entry-grid"]').waitFor();
+    await page.locator('[data-test="grid-row-INF-1"]').waitFor();
+    const normText = await page.locator('[data-test="grid-normality"]').innerText();
+    const normality = Number(/([\d.]+) N/.exec(normText)![1]);
+    // SM 2320 B: mg/L as CaCO3 = mL × N × 50,000 / sample mL (computed here for each row)
+    const mgL = (ml: number, sampleMl = 100) => ((ml * normality * 50000) / sampleMl).toFixed(1);
+
+    // INF-1: P cell, then Enter moves on to T and the receipt temperature, then to EFF-001's time.
+    await page.locator('[data-test="grid-INF-1-volumeToPh83Ml"]').click();
+    await page.keyboard.type('0.6');
+    await page.keyboard.press('Enter');
+    await page.keyboard.type('9.85');
+    await page.keyboard.press('Enter');
+    await page.keyboard.type('4.2');
+    await page.locator('[data-test="grid-INF-1-t"]').getByText(mgL(9.85)).waitFor();
+    expect(await page.locator('[data-test="grid-INF-1-p"]').innerText()).toBe(mgL(0.6));
+
+    // EFF-001 with a 50-mL aliquot, moving by Tab; a mistyped T is named in the row before saving.
+    await page.locator('[data-test="grid-EFF-001-sampleVolumeMl"]').fill('');
+    await page.locator('[data-test="grid-EFF-001-sampleVolumeMl"]').click();
+    await page.keyboard.type('50');
+    await page.keyboard.press('Tab');
+    await page.keyboard.type('0');
+    await page.keyboard.press('Tab');
+    await page.keyboard.type('3.4x');
+    await page.locator('[data-test="grid-EFF-001-state"]').getByText(/number/).waitFor();
+    await page.keyboard.press('Backspace');
+    await page.locator('[data-test="grid-EFF-001-t"]').getByText(mgL(3.4, 50)).waitFor();
+    expect(await page.locator('[data-test="grid-EFF-001-p"]').innerText()).toBe('0.0');
+    await page.evaluate(() => document.fonts.ready);
+    await screenshot(page, 'bench-8-entry-grid');
+
+    await page.locator('[data-test="grid-save-all"]').click();
+    await page.locator('[data-test="grid-INF-1-state"]').getByText('Saved (draft)').waitFor();
+    await page.locator('[data-test="grid-EFF-001-state"]').getByText('Saved (draft)').waitFor();
+    // The list below shows both new results.
+    await page.locator('[data-test="samples-table"]').getByText(mgL(9.85)).first().waitFor();
+    await page.locator('[data-test="samples-table"]').getByText(mgL(3.4, 50)).first().waitFor();
+    await screenshot(page, 'bench-9-entry-grid-saved');
+    await signOut(page);
+  });
+});
