@@ -18,6 +18,7 @@ import {
 import {
   amendSchema,
   benchEntrySchema,
+  benchSettingsSchema,
   benchReadingsSchema,
   bulkApproveSchema,
   calibrationCreateSchema,
@@ -133,7 +134,7 @@ const benchDocs: Record<string, BenchDoc> = {
   'GET /samples': {
     summary: 'List samples with their current titrations',
     description: 'Samples in the caller’s scope (an operator: their utility’s facilities; the laboratory: every client), newest first by default. Dates are read in the facility’s time zone.',
-    query: { facilityId: 'facility id', pointId: 'monitoring point id', from: 'collected on or after (YYYY-MM-DD or an instant)', to: 'collected on or before', status: 'received, in_progress, submitted or approved', q: 'text search' },
+    query: { ...LIST_QUERY, facilityId: 'facility id', pointId: 'monitoring point id', from: 'collected on or after (YYYY-MM-DD or an instant)', to: 'collected on or before', status: 'received, in_progress, submitted or approved' },
   },
   'POST /samples': { summary: 'Log a sample', description: 'Monitoring point, grab or composite (with start and end), collected at and by, received at, temperature on receipt (≤ 6 °C, 40 CFR 136.3 Table II), preservation, notes. Times must not be in the future.', schema: sampleCreateSchema, created: true },
   'GET /samples/{id}': { summary: 'One sample with its current titrations', description: 'A sample outside the caller’s scope answers 404.' },
@@ -168,10 +169,10 @@ const benchDocs: Record<string, BenchDoc> = {
   'GET /review': {
     summary: 'The review queue',
     description: 'Submitted results with their qualifiers and an "unusual" flag for a value beyond three standard deviations of the point’s last 30 approved values.',
-    query: { facilityId: 'facility id', pointId: 'monitoring point id', analysis: 'alkalinity or acidity', qualified: 'true: only qualified results' },
+    query: { ...LIST_QUERY, facilityId: 'facility id', pointId: 'monitoring point id', analysis: 'alkalinity or acidity', qualified: 'true: only qualified results' },
   },
   'POST /review/approve': { summary: 'Approve many submitted results at once', description: 'Up to 200 {id, version} pairs; all or none.', schema: bulkApproveSchema },
-  'GET /titrants': { summary: 'Titrant lots with their current standardisation', description: 'The lab’s lots (and a utility’s own); currentStandardization is the latest accepted one and whether it is still valid.', query: { kind: 'acid or base', active: 'true or false', q: 'lot contains' } },
+  'GET /titrants': { summary: 'Titrant lots with their current standardisation', description: 'The lab’s lots (and a utility’s own); currentStandardization is the latest accepted one and whether it is still valid.', query: { ...LIST_QUERY, kind: 'acid or base', active: 'true or false', q: 'lot contains' } },
   'POST /titrants': { summary: 'Register a titrant lot', description: 'Kind, reagent (H2SO4 or HCl for acid, NaOH for base), nominal normality, lot (unique per organisation: 409 otherwise), prepared and expiry dates.', schema: titrantCreateSchema, created: true, conflict: true },
   'GET /titrants/{id}': { summary: 'One titrant lot', description: 'With its current standardisation.' },
   'PATCH /titrants/{id}': { summary: 'Edit or retire a titrant lot', description: `active: false retires the lot. ${STALE}`, schema: titrantUpdateSchema },
@@ -182,7 +183,7 @@ const benchDocs: Record<string, BenchDoc> = {
     schema: standardizationCreateSchema,
     created: true,
   },
-  'GET /calibrations': { summary: 'pH meter calibrations', description: 'Newest first.', query: { meterId: 'meter id', organizationId: 'organisation id', passed: 'true or false', from: 'calibrated at or after', to: 'calibrated at or before' } },
+  'GET /calibrations': { summary: 'pH meter calibrations', description: 'Newest first.', query: { ...LIST_QUERY, meterId: 'meter id', organizationId: 'organisation id', passed: 'true or false', from: 'calibrated at or after', to: 'calibrated at or before' } },
   'POST /calibrations': {
     summary: 'Record a pH meter calibration',
     description: 'The first two buffers give the slope (as % of the Nernst slope at the temperature) and the offset at pH 7; further buffers are read back as checks (±0.1 pH by default). Passes within the lab’s slope window (95–105 % by default). Results of that day not yet approved are re-qualified.',
@@ -190,7 +191,7 @@ const benchDocs: Record<string, BenchDoc> = {
     created: true,
   },
   'GET /calibrations/{id}': { summary: 'One meter calibration', description: 'With its checks and warnings.' },
-  'GET /qc-batches': { summary: 'QC batches', description: 'The lab’s batches; a utility sees those covering its results.', query: { analysis: 'alkalinity or acidity', passed: 'true or false', from: 'batch date on or after (YYYY-MM-DD)', to: 'batch date on or before' } },
+  'GET /qc-batches': { summary: 'QC batches', description: 'The lab’s batches; a utility sees those covering its results.', query: { ...LIST_QUERY, analysis: 'alkalinity or acidity', passed: 'true or false', from: 'batch date on or after (YYYY-MM-DD)', to: 'batch date on or before' } },
   'POST /qc-batches': {
     summary: 'Record a QC batch',
     description: 'Duplicate pairs (RPD ≤ 10 % by default), check standards (recovery 90–110 %; true value as CaCO3 or as Na2CO3 × 100.09/105.99) and blanks below the reporting limit. A failed batch qualifies the titrations it covers (titrationIds: not yet approved, same analysis, in no other batch).',
@@ -199,6 +200,12 @@ const benchDocs: Record<string, BenchDoc> = {
   },
   'GET /qc-batches/{id}': { summary: 'One QC batch with its evaluation', description: 'Each check against its limit, and the titrations it covers.' },
   'PATCH /qc-batches/{id}': { summary: 'Correct a QC batch', description: `Re-evaluates and re-qualifies its results. ${STALE}`, schema: qcBatchUpdateSchema },
+  'GET /tools/inputs': {
+    summary: 'A monitoring point’s latest approved figures for the Tools pages',
+    description: 'Total and phenolphthalein alkalinity, pH, temperature, TDS, conductance, volatile acids, acidity and the titration’s sample volume, normality and endpoint volumes, each from the most recent approved result at the point that records it, with that result’s id and date. Answers values: {} when nothing is approved yet.',
+    query: { pointId: 'monitoring point id (required)' },
+  },
+  'PATCH /lab-settings/bench': { summary: 'Change the lab’s bench limits', description: 'Lab administrators. Applies to results computed from now on; the change is audited.', schema: benchSettingsSchema },
   'GET /lab-settings/bench': { summary: 'The lab’s bench limits', description: 'Acceptance limits and defaults: CaCO3 factor, duplicate RPD, recovery window, electrode slope window, check-buffer tolerance, standardisation validity and RSD, holding time, receipt temperature, the review flag.' },
 };
 
@@ -224,7 +231,7 @@ export function openApiDocument() {
     const calc = calcDocs[r.path];
     const bench = benchDocs[`${r.method.toUpperCase()} ${path}`];
     const doc = calc ?? bench;
-    const query = bench?.query ? (r.method === 'get' && !('page' in bench.query) ? { ...LIST_QUERY, ...bench.query } : bench.query) : {};
+    const query = bench?.query ?? {};
     const op: Record<string, unknown> = {
       summary: doc?.summary ?? `${r.method.toUpperCase()} ${r.path}`,
       ...(doc ? { description: doc.description } : {}),

@@ -68,7 +68,7 @@ describe('Bench: log a sample and a curve titration, then approve it from Review
 
     // The Curve view plots the readings.
     await page.locator('[data-test="open-curve"]').click();
-    await page.locator('canvas').waitFor();
+    await page.locator('canvas').first().waitFor();
     await page.locator('[data-test="readings-table"]').getByText('17.00').first().waitFor();
     await screenshot(page, 'bench-5-curve');
 
@@ -93,6 +93,18 @@ describe('Bench: log a sample and a curve titration, then approve it from Review
     // The record now says approved, with its audit trail.
     await page.goto(`${baseUrl}/bench/titrations/${titrationId}/curve`);
     await page.locator('[data-test="curve-results"]').waitFor();
+
+    // Curve insight on the Curve view: the model water with this result's T has its total
+    // equivalence at T × V / (N × 50,000) mL (SM 2320 B rearranged), which is the pH 4.5 volume T_ML itself.
+    const insight = page.locator('[data-test="curve-insight"]');
+    await insight.locator('[data-test="result-eq-total"]').waitFor();
+    expect(await insight.locator('[data-test="result-eq-total"]').innerText()).toMatch(new RegExp(`^${T_ML.toFixed(3).replace('.', '\\.')} mL at pH 4\\.\\d\\d`));
+    expect(await insight.locator('[data-test="result-error-total"]').innerText()).toMatch(/mL · [+-]?[\d.]+ mg\/L · [+-]?[\d.]+ %/);
+    expect(await insight.locator('[data-test="indicator-table"]').innerText()).toMatch(/Phenolphthalein/i);
+    expect(await insight.locator('[data-test="result-recommended"]').innerText()).toMatch(/pH 4\.\d/);
+    await insight.locator('canvas').waitFor();
+    await page.evaluate(() => document.fonts.ready);
+    await screenshot(page, 'bench-7b-curve-insight');
     expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
   });
 });
