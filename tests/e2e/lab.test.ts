@@ -80,8 +80,19 @@ describe('Lab QC screens: titrant lots, standardisations, meter calibrations and
     await shoot(page, 'lab-5-calibrations');
   });
 
-  it('records a QC batch: RPD, recovery and blank judged live against the limits', async () => {
+  it('records a QC batch: RPD, recovery and blank judged live against the limits, covering a result of the day', async () => {
     const { page } = b;
+    // setup: a draft alkalinity result of today, logged through the Bench entry grid
+    await page.locator('nav[aria-label="Main"] [data-area="bench"]').click();
+    await page.locator('[data-test="open-grid"]').click();
+    const firstRow = page.locator('[data-test^="grid-row-"]').first();
+    await firstRow.waitFor();
+    const code = (await firstRow.getAttribute('data-test'))!.replace('grid-row-', '');
+    await page.fill(`[data-test="grid-${code}-volumeToTotalEndpointMl"]`, '6.1');
+    await page.locator('[data-test="grid-save-all"]').click();
+    await page.locator(`[data-test="grid-${code}-state"]`).getByText('Saved').waitFor();
+
+    await page.locator('nav[aria-label="Main"] [data-area="lab"]').click();
     await page.locator('[data-test="lab-tab-qc-batches"]').click();
     await page.waitForURL(/\/lab\/qc-batches/);
     await page.locator('[data-test="add-qc"]').click();
@@ -100,11 +111,17 @@ describe('Lab QC screens: titrant lots, standardisations, meter calibrations and
     await page.fill('[data-test="dup-1-a"]', '100');
     await page.fill('[data-test="dup-1-b"]', '116.2');
     await page.locator('[data-test="qc-live-outcome"]').getByText('fails').waitFor();
+    // The day's result joins the batch.
+    await page.locator('[data-test="qc-titrations"]').click();
+    await page.locator('.p-multiselect-overlay .p-multiselect-option', { hasText: ` ${code} ` }).first().click();
+    await page.locator('[data-test="qc-form"] h3', { hasText: 'Evaluation' }).click();
+    await page.locator('.p-multiselect-overlay').waitFor({ state: 'detached' });
     await shoot(page, 'lab-6-qc-live');
     await page.locator('[data-test="save-qc"]').click();
     await page.locator('[data-test="qc-form"]').waitFor({ state: 'detached' });
     await page.locator('[data-test="qc-detail"]').waitFor();
     expect(await text(page, 'qc-detail')).toContain(`RPD ${rpd.toFixed(2)} %`);
+    expect(await text(page, 'qc-detail')).toMatch(/Covers titrations\s+#\d+/);
     await shoot(page, 'lab-7-qc-saved');
     expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
   });
