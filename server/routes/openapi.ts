@@ -202,7 +202,7 @@ const benchDocs: Record<string, BenchDoc> = {
   'PATCH /qc-batches/{id}': { summary: 'Correct a QC batch', description: `Re-evaluates and re-qualifies its results. ${STALE}`, schema: qcBatchUpdateSchema },
   'GET /tools/inputs': {
     summary: 'A monitoring point’s latest approved figures for the Tools pages',
-    description: 'Total and phenolphthalein alkalinity, pH, temperature, TDS, conductance, volatile acids, acidity and the titration’s sample volume, normality and endpoint volumes, each from the most recent approved result at the point that records it, with that result’s id and date. Answers values: {} when nothing is approved yet.',
+    description: 'Total and phenolphthalein alkalinity, pH, temperature, TDS, conductance, volatile acids, acidity and the titration’s sample volume, normality and endpoint volumes, each from the most recent approved result at the point that records it, with that result’s id and date; previousVolatileAcidsRatios lists the VA/alkalinity ratios of up to five earlier approved results, oldest first, for the digester trend. Answers values: {} when nothing is approved yet.',
     query: { pointId: 'monitoring point id (required)' },
   },
   'PATCH /lab-settings/bench': { summary: 'Change the lab’s bench limits', description: 'Lab administrators. Applies to results computed from now on; the change is audited.', schema: benchSettingsSchema },

@@ -1,4 +1,5 @@
 import { Op } from 'sequelize';
+import { volatileAcidsRatio } from '../../shared/chemistry/bench.js';
 import type { ToolInputField, ToolInputs, ToolInputValue } from '../../shared/types/tools.js';
 import { Titration } from '../db/models/index.js';
 import { ValidationError } from '../errors.js';
@@ -53,6 +54,16 @@ export async function latestToolInputs(actor: Actor, raw: Record<string, unknown
     take('tdsMgL', row, num(row.tdsMgL));
     take('specificConductanceUsCm', row, num(row.specificConductanceUsCm));
   }
+  // The digester tool's trend: ratios of the approved results before the one the figures came from.
+  const ratios: number[] = [];
+  for (const row of rows) {
+    if (row.analysis !== 'alkalinity' || row.volatileAcidsMgL === null || row.totalAlkalinity === null) continue;
+    if (row.id === values.volatileAcidsMgL?.titrationId) continue;
+    const r = volatileAcidsRatio(row.volatileAcidsMgL, row.totalAlkalinity);
+    if (r) ratios.push(r.ratio);
+    if (ratios.length === 5) break;
+  }
   const f = point.facility!;
-  return { point: { id: point.id, code: point.code, name: point.name, matrix: point.matrix, facility: { id: f.id, name: f.name } }, values, searched: rows.length };
+  return {
+    previousVolatileAcidsRatios: ratios.reverse(), point: { id: point.id, code: point.code, name: point.name, matrix: point.matrix, facility: { id: f.id, name: f.name } }, values, searched: rows.length };
 }

@@ -26,6 +26,8 @@ export interface ToolInputs {
   point: { id: number; code: string; name: string; matrix: string; facility: { id: number; name: string } };
   /** Each figure from the most recent approved (current, not superseded) result at the point that records it. */
   values: Partial<Record<ToolInputField, ToolInputValue>>;
+  /** Digester points: the VA/alkalinity ratios of earlier approved results, oldest first (up to 5), before the latest. */
+  previousVolatileAcidsRatios: number[];
   /** How many approved results were looked through. */
   searched: number;
 }

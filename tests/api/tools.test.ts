@@ -252,3 +252,22 @@ describe('GET /api/v1/tools/inputs: a point’s latest approved figures for the 
     expect((await billing.get(`/api/v1/tools/inputs?pointId=${site.point.id}`)).status).toBe(403);
   });
 });
+
+describe('GET /api/v1/tools/inputs: the digester trend', () => {
+  it('lists the VA/alkalinity ratios of the earlier approved results, oldest first, before the latest', async () => {
+    const analyst = await as(app, demo.analyst);
+    const acid = await makeAcidLot(app);
+    const site = await makeSite(app);
+    // setup: titres 50, 40, 25 mL on 50 mL at 0.02 N → 1000, 800, 500 mg/L as CaCO3 (SM 2320 B, computed here)
+    // with VA 100, 200, 150 mg/L → ratios 0.1, 0.25, 0.3 oldest to newest (Gerardi's VA/alkalinity, computed here)
+    for (const [days, titre, va] of [[4, 50, 100], [3, 40, 200], [2, 25, 150]] as const) {
+      const r = await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: acid.id, analysedAt: localTime(site.zone, days, '09:00'), titreMl: titre, titration: { sampleVolumeMl: 50, volatileAcidsMgL: va } });
+      const t = (await analyst.post(`/api/v1/titrations/${r.titration.id}/submit`).send({ version: r.titration.version })).body;
+      expect((await analyst.post(`/api/v1/titrations/${r.titration.id}/approve`).send({ version: t.version })).status).toBe(200);
+    }
+    const res = await analyst.get(`/api/v1/tools/inputs?pointId=${site.point.id}`);
+    expect(res.body.values.volatileAcidsMgL.value).toBe(150);
+    expect(res.body.values.totalAlkalinity.value).toBe(500);
+    expect(res.body.previousVolatileAcidsRatios).toEqual([0.1, 0.25]);
+  });
+});

@@ -179,6 +179,8 @@ describe('Tools pages (issue 9): live results from the shared engine', () => {
     outcome = await fillFrom('DIG-1');
     expect(await page.inputValue('#volatileAcidsMgL')).toBe(named(outcome, 'volatile acids'));
     expect(await page.inputValue('#alkalinity')).toBe(named(outcome, 'total alkalinity'));
+    // and the trend from the earlier approved results (the demo digester has months of them)
+    expect(await page.inputValue('#previousRatios')).toMatch(/^\d\.\d{3}(, \d\.\d{3}){4}$/);
     await shoot(page, 'tools-fill-digester');
 
     // The other tools take the alkalinity (and what else the bench records) the same way.
