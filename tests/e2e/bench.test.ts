@@ -147,8 +147,25 @@ describe('Bench: the daily entry grid', () => {
     await page.evaluate(() => document.fonts.ready);
     await screenshot(page, 'bench-8-entry-grid');
 
+    // A collection time 40 minutes ahead passes the form but not the server: that row is refused
+    // with the API's reason beside it and keeps nothing, while INF-1 is saved.
+    const hhmm = (offsetMin: number) => page.evaluate((m) => {
+      const d = new Date(Date.now() + m * 60_000);
+      return `${String(d.getHours()).padStart(2, '0')}:${String(d.getMinutes()).padStart(2, '0')}`;
+    }, offsetMin);
+    const ahead = await hhmm(40);
+    // (just before midnight "40 minutes ahead" is tomorrow, which a time of day cannot say)
+    const canBeAhead = ahead > (await hhmm(0));
+    if (canBeAhead) await page.fill('[data-test="grid-EFF-001-time"]', ahead);
     await page.locator('[data-test="grid-save-all"]').click();
     await page.locator('[data-test="grid-INF-1-state"]').getByText('Saved (draft)').waitFor();
+    if (canBeAhead) {
+      await page.locator('[data-test="grid-EFF-001-state"]').getByText('must not be in the future').waitFor();
+      expect(await page.locator('[data-test="grid-EFF-001-time"]').getAttribute('aria-invalid')).toBe('true');
+      await screenshot(page, 'bench-8b-entry-grid-row-refused');
+      await page.fill('[data-test="grid-EFF-001-time"]', await hhmm(-5));
+      await page.locator('[data-test="grid-save-all"]').click();
+    }
     await page.locator('[data-test="grid-EFF-001-state"]').getByText('Saved (draft)').waitFor();
     // The list below shows both new results.
     await page.locator('[data-test="samples-table"]').getByText(mgL(9.85)).first().waitFor();

@@ -1,7 +1,7 @@
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { openBrowser, screenshot } from './browser.js';
-import { signIn } from './helpers.js';
+import { signIn, signOut } from './helpers.js';
 
 const baseUrl = inject('baseUrl');
 let b: Awaited<ReturnType<typeof openBrowser>>;
@@ -124,5 +124,20 @@ describe('Lab QC screens: titrant lots, standardisations, meter calibrations and
     expect(await text(page, 'qc-detail')).toMatch(/Covers titrations\s+#\d+/);
     await shoot(page, 'lab-7-qc-saved');
     expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
+  });
+
+  it('shows an operator the lab’s lots and QC to read, and lets them record their own meter calibration', async () => {
+    const { page } = b;
+    await signOut(page);
+    await signIn(page, baseUrl, 'operator@kestrelford.example');
+    await page.locator('nav[aria-label="Main"] [data-area="lab"]').click();
+    await page.locator('[data-test="titrants-table"]').getByText('MA-H2SO4').first().waitFor();
+    expect(await page.locator('[data-test="add-titrant"]').count()).toBe(0);
+    await page.locator('[data-test="lab-tab-calibrations"]').click();
+    await page.locator('[data-test="add-calibration"]').waitFor();
+    await page.locator('[data-test="lab-tab-qc-batches"]').click();
+    await page.locator('[data-test="qc-table"]').waitFor();
+    expect(await page.locator('[data-test="add-qc"]').count()).toBe(0);
+    await shoot(page, 'lab-8-operator-qc');
   });
 });
