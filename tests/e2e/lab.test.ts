@@ -137,6 +137,7 @@ describe('Lab QC screens: titrant lots, standardisations, meter calibrations and
     await page.locator('[data-test="add-calibration"]').waitFor();
     await page.locator('[data-test="lab-tab-qc-batches"]').click();
     await page.locator('[data-test="qc-table"]').waitFor();
+    await page.locator('[data-test="qc-table"] .p-datatable-mask').waitFor({ state: 'detached' });
     expect(await page.locator('[data-test="add-qc"]').count()).toBe(0);
     await shoot(page, 'lab-8-operator-qc');
   });
