@@ -1,5 +1,6 @@
 import { parseOrThrow } from '../../shared/schemas/parse.js';
-import { sampleCreateSchema, sampleUpdateSchema, titrationCreateSchema } from '../../shared/schemas/bench.js';
+import { benchEntrySchema, sampleCreateSchema, sampleUpdateSchema, titrationCreateSchema } from '../../shared/schemas/bench.js';
+import { createBenchEntry } from '../services/benchEntries.js';
 import { actorOf } from '../services/actor.js';
 import * as samples from '../services/samples.js';
 import * as titrations from '../services/titrations.js';
@@ -27,5 +28,9 @@ export function sampleRoutes(r: RouteBuilder) {
   });
   r.post('/samples/:id/titrations', 'samples.write', async (req, res) => {
     res.status(201).json(await titrations.createTitration(actorOf(req), idOf(req.params.id), parseOrThrow(titrationCreateSchema, req.body)));
+  });
+  // The daily entry grid: a sample with its titration, all or nothing.
+  r.post('/bench/entries', 'samples.write', async (req, res) => {
+    res.status(201).json(await createBenchEntry(actorOf(req), parseOrThrow(benchEntrySchema, req.body)));
   });
 }

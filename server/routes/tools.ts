@@ -6,6 +6,8 @@ import {
   calculateNitrification,
   calculateTocRemoval,
 } from '../../shared/chemistry/tools/service.js';
+import { actorOf } from '../services/actor.js';
+import { latestToolInputs } from '../services/toolInputs.js';
 import type { RouteBuilder } from './registry.js';
 
 /**
@@ -31,5 +33,9 @@ export function toolRoutes(r: RouteBuilder) {
   });
   r.post('/calc/endpoint-error', 'calc.use', (req, res) => {
     res.json(calculateEndpointError(req.body));
+  });
+  // "Fill from latest results": reads approved results, so it needs the right to read samples.
+  r.get('/tools/inputs', 'samples.read', async (req, res) => {
+    res.json(await latestToolInputs(actorOf(req), req.query as Record<string, unknown>));
   });
 }

@@ -185,6 +185,16 @@ export const bulkApproveSchema = z.strictObject({
     .max(200, { error: 'at most 200 at a time' }),
 });
 
+/**
+ * One row of the daily entry grid: a sample and its titration, saved together (and submitted
+ * when asked) in one transaction, so a row is either all saved or not at all.
+ */
+export const benchEntrySchema = z.strictObject({
+  sample: sampleCreateSchema,
+  titration: titrationCreateSchema,
+  submit: z.boolean({ error: 'true or false' }).optional(),
+});
+
 export type TitrationInput = z.output<typeof titrationCreateSchema>;
 export type TitrationPatch = z.output<typeof titrationUpdateSchema>;
 

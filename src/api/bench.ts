@@ -1,5 +1,6 @@
 import type { Page } from '@shared/schemas/common';
-import type { ReviewItem, SampleView, TitrantView, TitrationDetail, TitrationView } from '@shared/types/bench';
+import type { BenchSettings } from '@shared/schemas/bench';
+import type { CalibrationView, QcBatchView, ReviewItem, SampleView, StandardizationView, TitrantView, TitrationDetail, TitrationView } from '@shared/types/bench';
 import { api } from './client';
 
 export interface AuditEntry {
@@ -23,6 +24,8 @@ export const benchApi = {
   createSample: (body: object) => api.post<SampleView>('/samples', body),
   updateSample: (id: number, body: object) => api.patch<SampleView>(`/samples/${id}`, body),
 
+  /** A daily-grid row: sample + titration (+ submit), all or nothing. */
+  createEntry: (body: object) => api.post<{ sample: SampleView; titration: TitrationView }>('/bench/entries', body),
   createTitration: (sampleId: number, body: object) => api.post<TitrationView>(`/samples/${sampleId}/titrations`, body),
   titration: (id: number) => api.get<TitrationDetail>(`/titrations/${id}`),
   updateTitration: (id: number, body: object) => api.patch<TitrationView>(`/titrations/${id}`, body),
@@ -42,4 +45,18 @@ export const benchApi = {
   bulkApprove: (items: { id: number; version: number }[]) => api.post<{ approved: number[]; items: TitrationView[] }>('/review/approve', { items }),
 
   titrants: (query: Q) => api.get<Page<TitrantView>>('/titrants', q(query)),
+  titrant: (id: number) => api.get<TitrantView>(`/titrants/${id}`),
+  createTitrant: (body: object) => api.post<TitrantView>('/titrants', body),
+  updateTitrant: (id: number, body: object) => api.patch<TitrantView>(`/titrants/${id}`, body),
+  standardizations: (titrantId: number, query: Q = {}) => api.get<Page<StandardizationView>>(`/titrants/${titrantId}/standardizations`, q(query)),
+  createStandardization: (titrantId: number, body: object) => api.post<StandardizationView>(`/titrants/${titrantId}/standardizations`, body),
+
+  calibrations: (query: Q) => api.get<Page<CalibrationView>>('/calibrations', q(query)),
+  createCalibration: (body: object) => api.post<CalibrationView>('/calibrations', body),
+
+  qcBatches: (query: Q) => api.get<Page<QcBatchView>>('/qc-batches', q(query)),
+  qcBatch: (id: number) => api.get<QcBatchView>(`/qc-batches/${id}`),
+  createQcBatch: (body: object) => api.post<QcBatchView>('/qc-batches', body),
+
+  benchSettings: () => api.get<{ settings: BenchSettings; defaults: BenchSettings; overrides: Partial<BenchSettings> }>('/lab-settings/bench'),
 };

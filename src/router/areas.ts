@@ -35,6 +35,19 @@ export const areas: Area[] = [
     ],
   },
   {
+    key: 'lab',
+    label: 'Lab QC',
+    icon: 'pi pi-sliders-h',
+    path: '/lab',
+    capability: 'lab.qc.read',
+    routes: [
+      { path: 'lab', redirect: '/lab/titrants' },
+      { path: 'lab/titrants', name: 'lab-titrants', component: () => import('@/views/lab/TitrantsView.vue'), meta: { capability: 'lab.qc.read' } },
+      { path: 'lab/calibrations', name: 'lab-calibrations', component: () => import('@/views/lab/CalibrationsView.vue'), meta: { capability: 'lab.qc.read' } },
+      { path: 'lab/qc-batches', name: 'lab-qc-batches', component: () => import('@/views/lab/QcBatchesView.vue'), meta: { capability: 'lab.qc.read' } },
+    ],
+  },
+  {
     key: 'review',
     label: 'Review',
     icon: 'pi pi-check-square',

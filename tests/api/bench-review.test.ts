@@ -84,7 +84,10 @@ describe('the review queue and its "unusual" flag (beyond 3 SD of the point’s 
   it('scopes the queue to the analyst’s lab clients and shows demo results awaiting review', async () => {
     const analyst = await as(app, demo.analyst);
     const demoQueue = (await analyst.get('/api/v1/review?pageSize=100')).body;
-    expect(demoQueue.total).toBeGreaterThanOrEqual(12);
+    // The demo leaves the last two days awaiting review, six results a day (three at Kestrel Ford,
+    // two at Brindlemoor, one at Quillon Bay); today's count only those analysed before the demo
+    // was loaded, so yesterday's six are the floor whatever the hour.
+    expect(demoQueue.total).toBeGreaterThanOrEqual(6);
     // the demo's transposed effluent figure from yesterday is flagged
     expect(demoQueue.items.some((i: { unusual: boolean; sample: { point: { code: string } } }) => i.unusual && i.sample.point.code === 'EFF-001')).toBe(true);
   });

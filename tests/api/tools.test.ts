@@ -1,6 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, demo } from '../fixtures/auth.js';
+import { localTime, makeAcidLot, makeResult, makeSite } from '../fixtures/bench.js';
 import { apiTestApp } from '../setup/db.js';
 
 const { app, sequelize } = apiTestApp();
@@ -202,5 +203,71 @@ describe('access and documentation', () => {
       expect(res.body.paths[p].post.requestBody.content['application/json'].schema.properties).toBeDefined();
       expect(res.body.paths[p].post['x-titrata-access']).toBe('calc.use');
     }
+  });
+});
+
+describe('GET /api/v1/tools/inputs: a point’s latest approved figures for the Tools pages', () => {
+  it('takes each figure from the newest approved result that records it, skipping drafts, and names the result', async () => {
+    const analyst = await as(app, demo.analyst);
+    const acid = await makeAcidLot(app);
+    const site = await makeSite(app);
+    // setup: an older approved result with pH, temperature and TDS; a newer approved one with T only; a newest draft
+    const older = await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: acid.id, analysedAt: localTime(site.zone, 3, '09:00'), titreMl: 6.0, titration: { initialPh: 7.4, temperatureC: 18.5, tdsMgL: 320 } });
+    const newer = await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: acid.id, analysedAt: localTime(site.zone, 2, '09:00'), titreMl: 7.25, titration: { volumeToPh83Ml: 0.4, sampleVolumeMl: 50 } });
+    await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: acid.id, analysedAt: localTime(site.zone, 1, '09:00'), titreMl: 9.9, titration: { initialPh: 8.9 } });
+    for (const r of [older, newer]) {
+      const t = (await analyst.post(`/api/v1/titrations/${r.titration.id}/submit`).send({ version: r.titration.version })).body;
+      expect((await analyst.post(`/api/v1/titrations/${r.titration.id}/approve`).send({ version: t.version })).status).toBe(200);
+    }
+
+    // action
+    const res = await analyst.get(`/api/v1/tools/inputs?pointId=${site.point.id}`);
+
+    // assert: SM 2320 B with the fixture's 0.02000 N — 7.25 × 0.02 × 50,000 / 50 = 145; P = 0.4 × 0.02 × 50,000 / 50 = 8 (computed here)
+    expect(res.status).toBe(200);
+    expect(res.body.point).toMatchObject({ id: site.point.id, facility: { id: site.facility.id } });
+    expect(res.body.values.totalAlkalinity).toMatchObject({ value: 145, titrationId: newer.titration.id, sampleId: newer.sample.id });
+    expect(res.body.values.phenolphthaleinAlkalinity.value).toBe(8);
+    expect(res.body.values).toMatchObject({ sampleVolumeMl: { value: 50 }, titrantNormality: { value: 0.02 }, volumeToTotalEndpointMl: { value: 7.25 } });
+    // pH, temperature and TDS come from the older approved result; the draft's pH 8.9 is not used
+    expect(res.body.values.pH).toMatchObject({ value: 7.4, titrationId: older.titration.id });
+    expect(res.body.values.temperatureC.value).toBe(18.5);
+    expect(res.body.values.tdsMgL.value).toBe(320);
+    expect(res.body.values).not.toHaveProperty('volatileAcidsMgL');
+    expect(res.body.searched).toBe(2);
+  });
+
+  it('answers an empty set for a point with no approved results, 400 without a point, and keeps scope', async () => {
+    const analyst = await as(app, demo.analyst);
+    const site = await makeSite(app);
+    const empty = await analyst.get(`/api/v1/tools/inputs?pointId=${site.point.id}`);
+    expect(empty.status).toBe(200);
+    expect(empty.body).toMatchObject({ values: {}, searched: 0 });
+    expectFields(await analyst.get('/api/v1/tools/inputs'), ['pointId']);
+    expectFields(await analyst.get('/api/v1/tools/inputs?pointId=abc'), ['pointId']);
+    // the Kestrel Ford operator cannot read another utility's point; billing may not read results at all
+    const other = await op.get(`/api/v1/tools/inputs?pointId=${site.point.id}`);
+    expect(other.status).toBe(400);
+    expect(other.body.error.fields).toEqual({ pointId: 'not found' });
+    expect((await billing.get(`/api/v1/tools/inputs?pointId=${site.point.id}`)).status).toBe(403);
+  });
+});
+
+describe('GET /api/v1/tools/inputs: the digester trend', () => {
+  it('lists the VA/alkalinity ratios of the earlier approved results, oldest first, before the latest', async () => {
+    const analyst = await as(app, demo.analyst);
+    const acid = await makeAcidLot(app);
+    const site = await makeSite(app);
+    // setup: titres 50, 40, 25 mL on 50 mL at 0.02 N → 1000, 800, 500 mg/L as CaCO3 (SM 2320 B, computed here)
+    // with VA 100, 200, 150 mg/L → ratios 0.1, 0.25, 0.3 oldest to newest (Gerardi's VA/alkalinity, computed here)
+    for (const [days, titre, va] of [[4, 50, 100], [3, 40, 200], [2, 25, 150]] as const) {
+      const r = await makeResult(app, demo.analyst, { pointId: site.point.id, titrantId: acid.id, analysedAt: localTime(site.zone, days, '09:00'), titreMl: titre, titration: { sampleVolumeMl: 50, volatileAcidsMgL: va } });
+      const t = (await analyst.post(`/api/v1/titrations/${r.titration.id}/submit`).send({ version: r.titration.version })).body;
+      expect((await analyst.post(`/api/v1/titrations/${r.titration.id}/approve`).send({ version: t.version })).status).toBe(200);
+    }
+    const res = await analyst.get(`/api/v1/tools/inputs?pointId=${site.point.id}`);
+    expect(res.body.values.volatileAcidsMgL.value).toBe(150);
+    expect(res.body.values.totalAlkalinity.value).toBe(500);
+    expect(res.body.previousVolatileAcidsRatios).toEqual([0.1, 0.25]);
   });
 });

@@ -68,7 +68,7 @@ describe('Bench: log a sample and a curve titration, then approve it from Review
 
     // The Curve view plots the readings.
     await page.locator('[data-test="open-curve"]').click();
-    await page.locator('canvas').waitFor();
+    await page.locator('canvas').first().waitFor();
     await page.locator('[data-test="readings-table"]').getByText('17.00').first().waitFor();
     await screenshot(page, 'bench-5-curve');
 
@@ -93,6 +93,84 @@ describe('Bench: log a sample and a curve titration, then approve it from Review
     // The record now says approved, with its audit trail.
     await page.goto(`${baseUrl}/bench/titrations/${titrationId}/curve`);
     await page.locator('[data-test="curve-results"]').waitFor();
+
+    // Curve insight on the Curve view: the model water with this result's T has its total
+    // equivalence at T × V / (N × 50,000) mL (SM 2320 B rearranged), which is the pH 4.5 volume T_ML itself.
+    const insight = page.locator('[data-test="curve-insight"]');
+    await insight.locator('[data-test="result-eq-total"]').waitFor();
+    expect(await insight.locator('[data-test="result-eq-total"]').innerText()).toMatch(new RegExp(`^${T_ML.toFixed(3).replace('.', '\\.')} mL at pH 4\\.\\d\\d`));
+    expect(await insight.locator('[data-test="result-error-total"]').innerText()).toMatch(/mL · [+-]?[\d.]+ mg\/L · [+-]?[\d.]+ %/);
+    expect(await insight.locator('[data-test="indicator-table"]').innerText()).toMatch(/Phenolphthalein/i);
+    expect(await insight.locator('[data-test="result-recommended"]').innerText()).toMatch(/pH 4\.\d/);
+    await insight.locator('canvas').waitFor();
+    await page.evaluate(() => document.fonts.ready);
+    await screenshot(page, 'bench-7b-curve-insight');
     expect(b.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
+  });
+});
+
+describe('Bench: the daily entry grid', () => {
+  it('operator enters two points by keyboard, sees P and T per row, and saves all in one go', async () => {
+    const { page } = b;
+    await signIn(page, baseUrl, 'operator@kestrelford.example');
+    await page.locator('nav[aria-label="Main"] [data-area="bench"]').click();
+    await page.locator('[data-test="open-grid"]').click();
+    await page.locator('[data-test="entry-grid"]').waitFor();
+    await page.locator('[data-test="grid-row-INF-1"]').waitFor();
+    const normText = await page.locator('[data-test="grid-normality"]').innerText();
+    const normality = Number(/([\d.]+) N/.exec(normText)![1]);
+    // SM 2320 B: mg/L as CaCO3 = mL × N × 50,000 / sample mL (computed here for each row)
+    const mgL = (ml: number, sampleMl = 100) => ((ml * normality * 50000) / sampleMl).toFixed(1);
+
+    // INF-1: P cell, then Enter moves on to T and the receipt temperature, then to EFF-001's time.
+    await page.locator('[data-test="grid-INF-1-volumeToPh83Ml"]').click();
+    await page.keyboard.type('0.6');
+    await page.keyboard.press('Enter');
+    await page.keyboard.type('9.85');
+    await page.keyboard.press('Enter');
+    await page.keyboard.type('4.2');
+    await page.locator('[data-test="grid-INF-1-t"]').getByText(mgL(9.85)).waitFor();
+    expect(await page.locator('[data-test="grid-INF-1-p"]').innerText()).toBe(mgL(0.6));
+
+    // EFF-001 with a 50-mL aliquot, moving by Tab; a mistyped T is named in the row before saving.
+    await page.locator('[data-test="grid-EFF-001-sampleVolumeMl"]').fill('');
+    await page.locator('[data-test="grid-EFF-001-sampleVolumeMl"]').click();
+    await page.keyboard.type('50');
+    await page.keyboard.press('Tab');
+    await page.keyboard.type('0');
+    await page.keyboard.press('Tab');
+    await page.keyboard.type('3.4x');
+    await page.locator('[data-test="grid-EFF-001-state"]').getByText(/number/).waitFor();
+    await page.keyboard.press('Backspace');
+    await page.locator('[data-test="grid-EFF-001-t"]').getByText(mgL(3.4, 50)).waitFor();
+    expect(await page.locator('[data-test="grid-EFF-001-p"]').innerText()).toBe('0.0');
+    await page.evaluate(() => document.fonts.ready);
+    await screenshot(page, 'bench-8-entry-grid');
+
+    // A collection time 40 minutes ahead passes the form but not the server: that row is refused
+    // with the API's reason beside it and keeps nothing, while INF-1 is saved.
+    const hhmm = (offsetMin: number) => page.evaluate((m) => {
+      const d = new Date(Date.now() + m * 60_000);
+      return `${String(d.getHours()).padStart(2, '0')}:${String(d.getMinutes()).padStart(2, '0')}`;
+    }, offsetMin);
+    const ahead = await hhmm(40);
+    // (just before midnight "40 minutes ahead" is tomorrow, which a time of day cannot say)
+    const canBeAhead = ahead > (await hhmm(0));
+    if (canBeAhead) await page.fill('[data-test="grid-EFF-001-time"]', ahead);
+    await page.locator('[data-test="grid-save-all"]').click();
+    await page.locator('[data-test="grid-INF-1-state"]').getByText('Saved (draft)').waitFor();
+    if (canBeAhead) {
+      await page.locator('[data-test="grid-EFF-001-state"]').getByText('must not be in the future').waitFor();
+      expect(await page.locator('[data-test="grid-EFF-001-time"]').getAttribute('aria-invalid')).toBe('true');
+      await screenshot(page, 'bench-8b-entry-grid-row-refused');
+      await page.fill('[data-test="grid-EFF-001-time"]', await hhmm(-5));
+      await page.locator('[data-test="grid-save-all"]').click();
+    }
+    await page.locator('[data-test="grid-EFF-001-state"]').getByText('Saved (draft)').waitFor();
+    // The list below shows both new results.
+    await page.locator('[data-test="samples-table"]').getByText(mgL(9.85)).first().waitFor();
+    await page.locator('[data-test="samples-table"]').getByText(mgL(3.4, 50)).first().waitFor();
+    await screenshot(page, 'bench-9-entry-grid-saved');
+    await signOut(page);
   });
 });

@@ -140,6 +140,65 @@ describe('Tools pages (issue 9): live results from the shared engine', () => {
     await shoot(page, 'tools-digester');
   });
 
+  it('every tool fills its inputs from a point’s latest approved results, naming where each figure came from', async () => {
+    const { page } = b;
+    /** Picks Kestrel Ford's point in the fill control and fills; returns the outcome line. */
+    async function fillFrom(pointCode: string) {
+      const control = page.locator('[data-test="fill-from-results"]');
+      await control.waitFor();
+      const facility = control.locator('[data-test="fill-facility"]');
+      if (!(await facility.innerText()).includes('Kestrel Ford Water Reclamation Plant')) {
+        await facility.click();
+        await page.locator('.p-select-overlay .p-select-option', { hasText: 'Kestrel Ford Water Reclamation Plant' }).click();
+        await page.locator('.p-select-overlay').waitFor({ state: 'detached' });
+      }
+      await control.locator('[data-test="fill-point"]').click();
+      await page.locator('.p-select-overlay .p-select-option', { hasText: `${pointCode} —` }).click();
+      await page.locator('.p-select-overlay').waitFor({ state: 'detached' });
+      await control.locator('[data-test="fill-go"]').click();
+      await control.locator('[data-test="fill-outcome"]').getByText(`From ${pointCode}`).waitFor();
+      return control.locator('[data-test="fill-outcome"]').innerText();
+    }
+    /** The figure the outcome line names for a label, e.g. "total alkalinity 123.4 (…)". */
+    const named = (outcome: string, label: string) => /\d/.test(outcome) ? new RegExp(`${label} (-?[\\d.]+) \\(`).exec(outcome)?.[1] : undefined;
+
+    // Curve insight from the effluent: alkalinity, pH and temperature from the bench; the model follows.
+    await openTool(page, /Curve insight/);
+    let outcome = await fillFrom('EFF-001');
+    const alk = named(outcome, 'total alkalinity');
+    expect(alk).toBeDefined();
+    expect(await page.inputValue('#totalAlkalinity')).toBe(alk);
+    expect(await page.inputValue('#initialPh')).toBe(named(outcome, 'pH'));
+    expect(await page.inputValue('#temperatureC')).toBe(named(outcome, 'temperature'));
+    // The recommendation names the filled alkalinity.
+    await page.getByText(`Recommended total endpoint for ${alk} mg/L`).waitFor();
+    await shoot(page, 'tools-fill-curve-insight');
+
+    // Digester health from the digester point: volatile acids and alkalinity of its latest approved result.
+    await openTool(page, /Digester health/);
+    outcome = await fillFrom('DIG-1');
+    expect(await page.inputValue('#volatileAcidsMgL')).toBe(named(outcome, 'volatile acids'));
+    expect(await page.inputValue('#alkalinity')).toBe(named(outcome, 'total alkalinity'));
+    // and the trend from the earlier approved results (the demo digester has months of them)
+    expect(await page.inputValue('#previousRatios')).toMatch(/^\d\.\d{3}(, \d\.\d{3}){4}$/);
+    await shoot(page, 'tools-fill-digester');
+
+    // The other tools take the alkalinity (and what else the bench records) the same way.
+    for (const [tool, field] of [
+      [/Titration calculator/, '#sampleVolumeMl'],
+      [/Corrosion indices/, '#totalAlkalinity'],
+      [/Enhanced coagulation/, '#sourceAlkalinity'],
+      [/Nitrification budget/, '#influentAlkalinity'],
+      [/Alkalinity dose/, '#currentAlkalinity'],
+    ] as const) {
+      await openTool(page, tool);
+      outcome = await fillFrom('EFF-001');
+      const label = field === '#sampleVolumeMl' ? 'sample volume' : 'total alkalinity';
+      expect(await page.inputValue(field), String(tool)).toBe(named(outcome, label));
+    }
+    await shoot(page, 'tools-fill-alkalinity-dose');
+  });
+
   it('raised no browser errors on the way', () => {
     expect(b.consoleErrors).toEqual([]);
   });
