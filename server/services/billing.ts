@@ -516,6 +516,7 @@ export async function startCheckout(actor: Actor, id: number): Promise<{ url: st
   const inv = await findInvoice(actor, id);
   if (inv.organizationId !== actor.organizationId) throw new NotFoundError('Invoice');
   if (inv.status !== 'open') throw new ConflictError(inv.status === 'paid' || inv.status === 'refunded' ? 'This invoice has already been paid.' : `A ${inv.status} invoice cannot be paid.`, { status: inv.status });
+  if (inv.totalCents <= 0) throw new ConflictError('Nothing is owed on this invoice.', { totalCents: 'zero' });
   if (inv.checkoutSessionId) {
     const previous = await provider('look up the payment page', () => payments().checkout.sessions.retrieve(inv.checkoutSessionId!));
     if (previous.status === 'open' && previous.url) return { url: previous.url };

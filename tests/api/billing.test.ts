@@ -9,6 +9,9 @@ import request from 'supertest';
 import Stripe from 'stripe';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startPaymentsFake, type PaymentsFakeHandle } from '../../fakes/payments/server.js';
+import { startSmtpFake, type SmtpFakeHandle } from '../../fakes/smtp/server.js';
+import { createMailer } from '../../server/integrations/mailer.js';
+import { deliverDue } from '../../server/services/outbox.js';
 import { AuditEvent, Invoice, OutboxMessage, PaymentEvent } from '../../server/db/models/index.js';
 import { as, demo, tokenFor } from '../fixtures/auth.js';
 import { makeAcidLot, makeResult, makeSite } from '../fixtures/bench.js';
@@ -16,6 +19,7 @@ import { apiTestApp } from '../setup/db.js';
 
 const WEBHOOK_SECRET = 'whsec_billing_api_tests';
 let pay: PaymentsFakeHandle;
+let smtp: SmtpFakeHandle;
 let ctx: ReturnType<typeof apiTestApp>;
 let server: Server;
 let stripe: Stripe;
@@ -23,7 +27,8 @@ let titrantId: number;
 
 beforeAll(async () => {
   pay = await startPaymentsFake({ port: 0, webhookUrl: null, webhookSecret: WEBHOOK_SECRET, webhookRetry: { attempts: 3, baseDelayMs: 50, maxDelayMs: 200, timeoutMs: 5000 } });
-  ctx = apiTestApp({ PAYMENTS_PORT: String(pay.port), PAYMENTS_HOST: '127.0.0.1', PAYMENTS_PROTOCOL: 'http', PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, PUBLIC_URL: 'http://127.0.0.1:8080' });
+  smtp = await startSmtpFake({ smtpPort: 0, mailboxPort: 0 });
+  ctx = apiTestApp({ SMTP_PORT: String(smtp.smtpPort), PAYMENTS_PORT: String(pay.port), PAYMENTS_HOST: '127.0.0.1', PAYMENTS_PROTOCOL: 'http', PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, PUBLIC_URL: 'http://127.0.0.1:8080' });
   // The fake delivers webhooks over HTTP, so the app listens on a free port for this file.
   server = ctx.app.listen(0, '127.0.0.1');
   await new Promise<void>((resolve) => server.once('listening', () => resolve()));
@@ -31,7 +36,20 @@ beforeAll(async () => {
   stripe = new Stripe('sk_test_billing_api', { host: '127.0.0.1', port: pay.port, protocol: 'http', maxNetworkRetries: 0, telemetry: false });
   titrantId = (await makeAcidLot(ctx.app)).id;
 });
+/** Sends every queued e-mail to the SMTP capture (the outbox job's work, done here on demand). */
+async function deliverAll() {
+  const mailer = createMailer(ctx.config);
+  try {
+    for (let i = 0; i < 20 && (await deliverDue(ctx.config, mailer, 50)).sent > 0; i++);
+  } finally {
+    mailer.close();
+  }
+}
+
 afterAll(async () => {
+  // Leave no queued mail behind for the files that run after this one.
+  await deliverAll();
+  await smtp.close();
   await pay.close();
   await new Promise((r) => server.close(r));
   await ctx.sequelize.close();
@@ -252,6 +270,14 @@ describe('paying through the hosted page', () => {
     expect(await auditCount(inv.id, 'invoice.paid')).toBe(1);
     const receipt = await OutboxMessage.findOne({ where: { dedupeKey: `receipt:${inv.id}` } });
     expect(receipt?.toAddresses).toContain(c.email);
+    // the receipt and the invoice reach the billing contact's mailbox with their PDFs
+    await deliverAll();
+    const receiptMail = await smtp.waitForMessage((m) => (m.subject ?? '').startsWith(`Receipt for invoice ${inv.number}`));
+    expect(receiptMail.to).toContain(c.email);
+    expect(receiptMail.subject).toContain('$49.00 paid');
+    expect(receiptMail.attachments[0]).toMatchObject({ filename: `receipt-${inv.number}.pdf`, contentType: 'application/pdf' });
+    const invoiceMail = await smtp.waitForMessage((m) => (m.subject ?? '').startsWith(`Invoice ${inv.number}`));
+    expect(invoiceMail.attachments[0]).toMatchObject({ filename: `${inv.number}.pdf`, contentType: 'application/pdf' });
     expect((await c.payer.get(`/api/v1/invoices/${inv.id}/receipt`)).status).toBe(200);
     // the customer was created once, for this organisation
     const customers = await stripe.customers.list({ limit: 100 });

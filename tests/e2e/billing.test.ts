@@ -79,6 +79,23 @@ describe('Billing: paying an invoice online', () => {
     expect(await page.getByRole('heading', { level: 1 }).innerText()).toMatch(/^Invoice MA-\d{4}-\d{4}$/);
     await screenshot(page, 'billing-invoice-issued');
 
+    // bill a month that has no invoice yet: three months ago, for Brindlemoor
+    await page.getByRole('link', { name: 'Billing', exact: true }).first().click();
+    await page.locator('[data-test="generate-invoice"]').click();
+    await page.locator('#gi-client').click();
+    await page.getByRole('option', { name: 'Brindlemoor Water Authority' }).click();
+    const m = new Date();
+    const first = new Date(Date.UTC(m.getUTCFullYear(), m.getUTCMonth() - 3, 1)).toISOString().slice(0, 10);
+    const last = new Date(Date.UTC(m.getUTCFullYear(), m.getUTCMonth() - 2, 0)).toISOString().slice(0, 10);
+    await page.fill('#gi-from', first);
+    await page.fill('#gi-to', last);
+    await screenshot(page, 'billing-bill-a-period');
+    await page.locator('[data-test="generate-submit"]').click();
+    await page.locator('[data-test="invoice-state"]').getByText('Draft').waitFor();
+    expect(await page.locator('[data-test="invoice-lines"]').innerText()).toContain('Alkalinity');
+    expect(await page.locator('p', { hasText: 'analyses from' }).first().innerText()).toContain(`Brindlemoor Water Authority · analyses from ${first} to ${last}`);
+    await screenshot(page, 'billing-draft');
+
     await page.getByRole('link', { name: 'Billing', exact: true }).first().click();
     await page.getByRole('link', { name: 'Price list' }).click();
     await page.locator('[data-test="prices-table"]').getByText('Full carbonate speciation').first().waitFor();
