@@ -11,10 +11,15 @@ export async function startServer(config: Config = loadConfig()) {
   const sequelize = createSequelize(dbTarget(config));
   await sequelize.authenticate();
   const app = createApp({ config, sequelize, log });
+  // Express 5 hands a listen error (port taken) to the callback: refuse to start rather than
+  // leave another program answering on our port.
+  const server: Server = await new Promise((resolve, reject) => {
+    const s = app.listen(config.PORT, config.HOST, (err?: Error) => (err ? reject(new Error(`cannot listen on ${config.HOST}:${config.PORT}: ${err.message}`)) : resolve(s)));
+  }).catch(async (err) => {
+    await sequelize.close();
+    throw err;
+  }) as Server;
   const jobs = startJobs(config, log);
-  const server: Server = await new Promise((resolve) => {
-    const s = app.listen(config.PORT, config.HOST, () => resolve(s));
-  });
   return {
     server,
     sequelize,

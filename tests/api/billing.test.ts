@@ -344,7 +344,10 @@ describe('paying through the hosted page', () => {
       });
       expect(mine.map((e) => e.type)).toEqual(expect.arrayContaining(['payment_intent.payment_failed', 'payment_intent.succeeded', 'checkout.session.completed']));
       // newest first: completion, success, … and the decline last
-      for (const e of [...mine].sort((a, b) => b.created - a.created || (a.id < b.id ? 1 : -1))) await pay.resend(e.id);
+      // (events of one second share `created`, so the decline is put last explicitly)
+      const newestFirst = [...mine].sort((a, b) => b.created - a.created || (a.id < b.id ? 1 : -1));
+      const order = [...newestFirst.filter((e) => e.type !== 'payment_intent.payment_failed'), ...newestFirst.filter((e) => e.type === 'payment_intent.payment_failed')];
+      for (const e of order) await pay.resend(e.id);
       const row = (await invoiceRow(inv.id))!;
       expect(row.status).toBe('paid');
       expect(row.lastPaymentError).toBeNull();
