@@ -32,7 +32,8 @@ export function createSequelize(t: DbTarget): Sequelize {
     host: t.host,
     port: t.port,
     dialect: 'mariadb',
-    logging: false,
+    logging: process.env.SQL_TRACE ? (sql: string, ms?: number) => console.log(`[sql ${ms ?? '?'} ms] ${sql.slice(0, 160)}`) : false,
+    benchmark: !!process.env.SQL_TRACE,
     timezone: '+00:00',
     dialectOptions: {
       bigNumberStrings: true,
