@@ -26,12 +26,14 @@ beforeAll(async () => {
   const kf = await Organization.findOne({ where: { name: 'Kestrel Ford Sanitary District' } });
   const bm = await Organization.findOne({ where: { name: 'Brindlemoor Water Authority' } });
   expect(kf && bm).toBeTruthy();
-  const facility = (await Facility.findOne({ where: { organizationId: kf!.id } }))!;
+  // by name: other files add facilities to this utility
+  const facility = (await Facility.findOne({ where: { organizationId: kf!.id, name: 'Kestrel Ford Water Reclamation Plant' } }))!;
   const point = (await MonitoringPoint.findOne({ where: { facilityId: facility.id } }))!;
   const permit = (await Permit.findOne({ where: { facilityId: facility.id } }))!;
   const limit = (await PermitLimit.findOne({ where: { permitId: permit.id } }))!;
-  const sample = (await Sample.findOne({ where: { organizationId: kf!.id } }))!;
-  const titration = (await Titration.findOne({ where: { sampleId: sample.id } }))!;
+  // a demo result (the seed's, so the first) and its sample
+  const titration = (await Titration.findOne({ where: { organizationId: kf!.id }, order: [['id', 'ASC']] }))!;
+  const sample = (await Sample.findByPk(titration.sampleId))!;
   const exceedance = (await Exceedance.findOne({ where: { facilityId: facility.id } }))!;
   const invoice = (await Invoice.findOne({ where: { organizationId: kf!.id, status: 'paid' } }))!;
   let report = await Report.findOne({ where: { facilityId: facility.id } });
