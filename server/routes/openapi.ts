@@ -19,6 +19,7 @@ import { invoiceFinaliseSchema, invoiceGenerateSchema, invoiceRefundSchema, invo
 import {
   amendSchema,
   benchEntrySchema,
+  benchImportSchema,
   benchSettingsSchema,
   benchReadingsSchema,
   bulkApproveSchema,
@@ -152,6 +153,12 @@ const benchDocs: Record<string, BenchDoc> = {
     summary: 'Daily entry: a sample and its titration together, all or nothing',
     description: 'One row of the Bench entry grid: creates the sample, its titration and (with submit: true) submits it, in one transaction. Field errors are named under their part: sample.pointId, titration.volumeToTotalEndpointMl. Answers {sample, titration}.',
     schema: benchEntrySchema,
+    created: true,
+  },
+  'POST /bench/entries/import': {
+    summary: 'Import many entries at once, all or nothing',
+    description: 'Up to 500 entries of the same shape as POST /bench/entries (a day’s sheet, an export of another system), each checked and computed exactly as one typed in the grid, in one transaction. The first refusal undoes them all and is named by position: entries.3.titration.titrantId. Answers {created, items: [{sampleId, titrationId, status}]}.',
+    schema: benchImportSchema,
     created: true,
   },
   'GET /titrations/{id}': { summary: 'A titration with readings, derivative, sample, versions and history', description: 'The record as stored: inputs, results (with the engine’s full output and exact decimals), qualifiers, warnings, workflow stamps, every version of the result and how it compares with the point’s recent approved values.' },

@@ -1,6 +1,6 @@
 import { parseOrThrow } from '../../shared/schemas/parse.js';
-import { benchEntrySchema, sampleCreateSchema, sampleUpdateSchema, titrationCreateSchema } from '../../shared/schemas/bench.js';
-import { createBenchEntry } from '../services/benchEntries.js';
+import { benchEntrySchema, benchImportSchema, sampleCreateSchema, sampleUpdateSchema, titrationCreateSchema } from '../../shared/schemas/bench.js';
+import { createBenchEntry, importBenchEntries } from '../services/benchEntries.js';
 import { actorOf } from '../services/actor.js';
 import * as samples from '../services/samples.js';
 import * as titrations from '../services/titrations.js';
@@ -32,5 +32,9 @@ export function sampleRoutes(r: RouteBuilder) {
   // The daily entry grid: a sample with its titration, all or nothing.
   r.post('/bench/entries', 'samples.write', async (req, res) => {
     res.status(201).json(await createBenchEntry(actorOf(req), parseOrThrow(benchEntrySchema, req.body)));
+  });
+  // Many entries at once (a day's sheet, an import): all or nothing.
+  r.post('/bench/entries/import', 'samples.write', async (req, res) => {
+    res.status(201).json(await importBenchEntries(actorOf(req), parseOrThrow(benchImportSchema, req.body)));
   });
 }

@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 import { InputError } from '../../shared/errors.js';
-import type { benchEntrySchema } from '../../shared/schemas/bench.js';
+import type { benchEntrySchema, benchImportSchema } from '../../shared/schemas/bench.js';
 import type { SampleView, TitrationView } from '../../shared/types/bench.js';
 import { AppError, ConflictError, ValidationError } from '../errors.js';
 import type { Actor } from './actor.js';
@@ -9,7 +9,7 @@ import { createTitration, getTitration, submitTitration } from './titrations.js'
 import { inTransaction } from './transaction.js';
 
 /** A service's field errors named under the part of the entry they belong to (`sample.pointId`). */
-async function under<T>(part: 'sample' | 'titration', work: () => Promise<T>): Promise<T> {
+async function under<T>(part: string, work: () => Promise<T>): Promise<T> {
   try {
     return await work();
   } catch (e) {
@@ -35,4 +35,23 @@ export async function createBenchEntry(actor: Actor, input: z.output<typeof benc
     return { sampleId: sample.id, titrationId: titration.id };
   });
   return { sample: await getSample(actor, ids.sampleId), titration: await getTitration(actor, ids.titrationId) };
+}
+
+/**
+ * Many entries in one transaction, through the same services, so each is checked and computed
+ * exactly as one typed in the grid; the first failure undoes them all and is named by its
+ * position (`entries.3.titration.volumeToTotalEndpointMl`).
+ */
+export async function importBenchEntries(actor: Actor, input: z.output<typeof benchImportSchema>): Promise<{ created: number; items: Array<{ sampleId: number; titrationId: number; status: string }> }> {
+  const items = await inTransaction(undefined, async (t) => {
+    const out: Array<{ sampleId: number; titrationId: number; status: string }> = [];
+    for (const [i, entry] of input.entries.entries()) {
+      const sample = await under(`entries.${i}.sample`, () => createSample(actor, entry.sample, t));
+      let titration = await under(`entries.${i}.titration`, () => createTitration(actor, sample.id, entry.titration, t));
+      if (entry.submit) titration = await under(`entries.${i}.titration`, () => submitTitration(actor, titration.id, { version: titration.version }, t));
+      out.push({ sampleId: Number(sample.id), titrationId: Number(titration.id), status: titration.status });
+    }
+    return out;
+  });
+  return { created: items.length, items };
 }

@@ -195,6 +195,12 @@ export const benchEntrySchema = z.strictObject({
   submit: z.boolean({ error: 'true or false' }).optional(),
 });
 
+/** A batch of entries (a day's sheet, an import from another system): all saved, or none. */
+export const BENCH_IMPORT_LIMIT = 500;
+export const benchImportSchema = z.strictObject({
+  entries: z.array(benchEntrySchema).min(1, { error: 'at least one entry' }).max(BENCH_IMPORT_LIMIT, { error: `at most ${BENCH_IMPORT_LIMIT} entries per request` }),
+});
+
 export type TitrationInput = z.output<typeof titrationCreateSchema>;
 export type TitrationPatch = z.output<typeof titrationUpdateSchema>;
 

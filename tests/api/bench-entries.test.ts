@@ -81,3 +81,50 @@ describe('POST /bench/entries: one row of the daily entry grid, all or nothing',
     expect((await (await as(app, demo.compliance)).post('/api/v1/bench/entries').send(entry(kf.point.id, new Date().toISOString()))).status).toBe(403);
   });
 });
+
+describe('POST /bench/entries/import: many entries, all or nothing', () => {
+  it('stores every entry as the single-entry route would, with the engine’s results', async () => {
+    const analyst = await as(app, demo.analyst);
+    const site = await makeSite(app);
+    const titres = [4.0, 6.0, 11.5];
+    const entries = titres.map((v, i) => entry(site.point.id, localTime(site.zone, 1 + i, '08:00').toISOString(), { volumeToPh83Ml: 0, volumeToTotalEndpointMl: v }, { submit: i === 2 }));
+    const res = await analyst.post('/api/v1/bench/entries/import').send({ entries });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.created).toBe(3);
+    expect(res.body.items.map((x: { status: string }) => x.status)).toEqual(['draft', 'draft', 'submitted']);
+    for (const [i, item] of (res.body.items as { titrationId: number }[]).entries()) {
+      const t = (await analyst.get(`/api/v1/titrations/${item.titrationId}`)).body;
+      // SM 2320 B with the fixture lot's 0.02000 N: T = titre × 0.02 × 50,000 / 100 (4.00 mL → 40, 6.00 → 60, 11.50 → 115)
+      expect(t.results.totalAlkalinity).toBe(calculateAlkalinity({ sampleVolumeMl: 100, titrantNormality: 0.02, volumeToPh83Ml: 0, volumeToTotalEndpointMl: titres[i], totalEndpointPh: 4.5 }).totalAlkalinity);
+    }
+    expect((await analyst.get(`/api/v1/titrations/${res.body.items[0].titrationId}`)).body.results.totalAlkalinity).toBe(40);
+  });
+
+  it('refuses the whole batch when one entry is bad, naming it by position, and keeps none', async () => {
+    const analyst = await as(app, demo.analyst);
+    const site = await makeSite(app);
+    const count = async () => (await analyst.get(`/api/v1/samples?pointId=${site.point.id}&pageSize=1&from=2000-01-01&to=2100-01-01`)).body.total;
+    const at = localTime(site.zone, 1, '09:00').toISOString();
+    const entries = [entry(site.point.id, at), entry(site.point.id, at), entry(site.point.id, at, { titrantId: 987654321 })];
+    const res = await analyst.post('/api/v1/bench/entries/import').send({ entries });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.error.fields)).toEqual(['entries.2.titration.titrantId']);
+    expect(await count()).toBe(0);
+    // schema errors are named by position too, and an empty or oversized batch is refused
+    const bad = await analyst.post('/api/v1/bench/entries/import').send({ entries: [entry(site.point.id, at), entry(site.point.id, at, { sampleVolumeMl: -5 })] });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields).some((k) => k.startsWith('entries.1.titration.sampleVolumeMl'))).toBe(true);
+    expect((await analyst.post('/api/v1/bench/entries/import').send({ entries: [] })).status).toBe(400);
+    expect((await analyst.post('/api/v1/bench/entries/import').send({ entries: Array.from({ length: 501 }, () => entry(site.point.id, at)) })).status).toBe(400);
+    expect(await count()).toBe(0);
+  });
+
+  it('keeps an operator to their own utility’s points', async () => {
+    const brindlemoor = await as(app, demo.operatorBrindlemoor);
+    const kf = await kestrelEffluent(app);
+    const at = localTime(kf.zone, 1, '10:00').toISOString();
+    const res = await brindlemoor.post('/api/v1/bench/entries/import').send({ entries: [entry(kf.point.id, at)] });
+    expect(res.status).toBe(400);
+    expect(res.body.error.fields).toHaveProperty('entries.0.sample.pointId');
+  });
+});
