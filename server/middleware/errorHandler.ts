@@ -3,6 +3,7 @@ import { BaseError, ConnectionError, TimeoutError } from 'sequelize';
 import type { Logger } from 'pino';
 import { ErrorCode, InputError, type ErrorBody } from '../../shared/errors.js';
 import { AppError } from '../errors.js';
+import { isRetryableLockError } from '../services/transaction.js';
 
 /** 404 in the error shape for any /api path no router answered. */
 export const apiNotFound: RequestHandler = (req, res) => {
@@ -45,6 +46,11 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
       status = err.status;
       const code = status === 404 ? ErrorCode.notFound : status === 413 ? ErrorCode.payloadTooLarge : ErrorCode.validation;
       body = { error: { code, message: String(err.message) } };
+    } else if (isRetryableLockError(err)) {
+      // still locked out after the retries: nothing was saved, and the client may try again
+      status = 503;
+      body = { error: { code: ErrorCode.unavailable, message: 'The record is busy with another change; nothing was saved. Try again.' } };
+      log.warn({ err: { message: err?.message }, path: req.path }, 'lock conflict after retries');
     } else if (isDbDown(err)) {
       status = 503;
       body = { error: { code: ErrorCode.unavailable, message: 'The database is not reachable; try again shortly.' } };

@@ -113,7 +113,7 @@ const toDate = (v: string | null | undefined) => (v ? new Date(v) : null);
 
 /** An operator logs a sample at one of their utility's points; the lab may log one for any client. */
 export async function createSample(actor: Actor, input: z.output<typeof sampleCreateSchema>, tx?: Transaction): Promise<SampleView> {
-  const point = await findPoint(actor, input.pointId).catch((e) => {
+  const point = await findPoint(actor, input.pointId, tx).catch((e) => {
     if (e instanceof NotFoundError) throw new ValidationError('Choose one of your monitoring points.', { pointId: 'not found' });
     throw e;
   });

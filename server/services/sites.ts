@@ -1,4 +1,4 @@
-import { Op, type WhereOptions } from 'sequelize';
+import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import type {
   facilitySchema,
@@ -159,8 +159,10 @@ export async function listPoints(actor: Actor, facilityId: number, raw: Record<s
   return { items: rows.map((r) => ({ ...pointView(r), facilityName: facility.name })), total: count };
 }
 
-export async function findPoint(actor: Actor, id: number) {
-  const point = await MonitoringPoint.findByPk(id, { include: [{ model: Facility, as: 'facility' }] });
+export async function findPoint(actor: Actor, id: number, transaction?: Transaction) {
+  // inside a caller's transaction, on its connection: a second pool connection per
+  // transaction would starve the pool under concurrent writes
+  const point = await MonitoringPoint.findByPk(id, { include: [{ model: Facility, as: 'facility' }], transaction });
   if (!point || !point.facility) throw new NotFoundError('Monitoring point');
   assertInScope(actor, point.facility.organizationId, 'Monitoring point');
   return point;

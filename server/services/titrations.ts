@@ -48,7 +48,10 @@ async function lockTitration(actor: Actor, id: number, t: Transaction): Promise<
 }
 
 async function sampleFor(actor: Actor, sampleId: number, t?: Transaction, lock = false): Promise<Sample & { facility: Facility }> {
-  const sample = await Sample.findByPk(sampleId, { include: [{ model: Facility, as: 'facility', attributes: ['id', 'name', 'timezone', 'organizationId'] }], transaction: t, ...(lock && t ? { lock: t.LOCK.UPDATE } : {}) });
+  // Lock the sample row alone: FOR UPDATE on a join would also lock the facility row, which
+  // every concurrent sample insert holds a shared lock on through its foreign key (a deadlock).
+  if (lock && t) await Sample.findByPk(sampleId, { attributes: ['id'], transaction: t, lock: t.LOCK.UPDATE });
+  const sample = await Sample.findByPk(sampleId, { include: [{ model: Facility, as: 'facility', attributes: ['id', 'name', 'timezone', 'organizationId'] }], transaction: t });
   if (!sample) throw new NotFoundError('Sample');
   assertInScope(actor, sample.organizationId, 'Sample');
   return sample as Sample & { facility: Facility };

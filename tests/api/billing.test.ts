@@ -397,7 +397,11 @@ describe('paying through the hosted page', () => {
     const refunds = await stripe.refunds.list({ payment_intent: row.paymentIntentId! });
     expect(refunds.data.map((r) => r.amount)).toEqual([7350]);
     expect((await admin.post(`/api/v1/invoices/${inv.id}/refund`, { reason: 'again' })).status).toBe(409);
-    expect((await PaymentEvent.findAll({ where: { invoiceId: inv.id, type: 'charge.refunded' } })).map((e) => e.outcome)).toEqual(['already_refunded']);
+    // the provider's event may be handled before or after our own refund call commits: either
+    // way it is recorded once and the money is refunded once
+    const refundEvents = (await PaymentEvent.findAll({ where: { invoiceId: inv.id, type: 'charge.refunded' } })).map((e) => e.outcome);
+    expect(refundEvents).toHaveLength(1);
+    expect(['already_refunded', 'refunded']).toContain(refundEvents[0]);
     expect(await auditCount(inv.id, 'invoice.refund')).toBe(1);
     expect((await c.payer.get(`/api/v1/invoices/${inv.id}`)).body.state).toBe('refunded');
   });

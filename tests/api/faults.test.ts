@@ -70,6 +70,20 @@ describe('MariaDB stopped during a stream of writes', () => {
   }, 60000);
 });
 
+describe('concurrent entries', () => {
+  it('saves twenty entries sent at once to the same points without a deadlock reaching the client', async () => {
+    const lot = await makeAcidLot(app);
+    const at = dayjs().subtract(2, 'hour').toISOString();
+    const analyst = await as(app, demo.analyst);
+    const body = () => ({
+      sample: { pointId: site.point.id, sampleType: 'grab', collectedAt: at, receivedAt: at, receiptTemperatureC: 4 },
+      titration: { analysis: 'alkalinity', method: 'color_indicator', sampleVolumeMl: 100, titrantId: lot.id, volumeToPh83Ml: 0, volumeToTotalEndpointMl: 6, totalEndpointPh: 4.5, analysedAt: at },
+    });
+    const results = await Promise.all(Array.from({ length: 20 }, () => analyst.post('/api/v1/bench/entries').send(body())));
+    expect(results.map((r) => r.status)).toEqual(Array(20).fill(201));
+  });
+});
+
 describe('concurrent approvals of one result', () => {
   it('lets one approval win and answers the other 409', async () => {
     const lot = await makeAcidLot(app);

@@ -173,7 +173,8 @@ export const seedBench: SeedStep['run'] = async ({ sequelize, transaction: t }) 
       const day = localDay(tz, d);
       const end = dayjs.tz(`${day} 07:00`, tz);
       const analysedAt = end.add(2, 'hour').add(Math.floor(rnd.next() * 40), 'minute');
-      if (analysedAt.isBefore(now)) {
+      // the last of the day's three titrations is 25 minutes after the first: all must be past
+      if (analysedAt.add(25, 'minute').isBefore(now)) {
         const composite = async (code: string) =>
           createSample(
             kestrel,
