@@ -1,26 +1,8 @@
-import { createRequire } from 'node:module';
-import pdfmake from 'pdfmake';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
 import { BILLING_KIND_LABELS, formatMoney } from '../../shared/billing/money.js';
+import { PDF_TEAL, renderPdf } from '../integrations/pdf.js';
 
-const require = createRequire(import.meta.url);
-/** Full Work Sans TTFs (the woff subsets of the browser package crash pdfkit's subsetter). */
-const font = (weight: string) => require.resolve(`@expo-google-fonts/work-sans/${weight}/WorkSans_${weight}.ttf`);
-const FONTS = {
-  WorkSans: {
-    normal: font('400Regular'),
-    bold: font('600SemiBold'),
-    italics: require.resolve('@expo-google-fonts/work-sans/400Regular_Italic/WorkSans_400Regular_Italic.ttf'),
-    bolditalics: require.resolve('@expo-google-fonts/work-sans/600SemiBold_Italic/WorkSans_600SemiBold_Italic.ttf'),
-  },
-};
-const allowedFonts = new Set(Object.values(FONTS.WorkSans));
-pdfmake.setFonts(FONTS);
-// Documents are built from our own data only: no URLs, and only the font files from disk.
-pdfmake.setUrlAccessPolicy(() => false);
-pdfmake.setLocalAccessPolicy((p) => allowedFonts.has(p));
-
-const TEAL = '#12606B';
+const TEAL = PDF_TEAL;
 const SLATE = '#334155';
 
 export interface InvoiceDocument {
@@ -126,7 +108,7 @@ export async function invoicePdf(doc: InvoiceDocument): Promise<Buffer> {
     ...(doc.notes ? [{ text: doc.notes, italics: true, margin: [0, 0, 0, 10] } as Content] : []),
     ...samplesList(doc),
   ];
-  return Buffer.from(await pdfmake.createPdf(definition(content)).getBuffer());
+  return renderPdf(definition(content));
 }
 
 /** The receipt of a paid invoice: what was paid, when, and the payment reference. */
@@ -138,5 +120,5 @@ export async function receiptPdf(doc: InvoiceDocument): Promise<Buffer> {
   ];
   if (doc.refundedAt) paid.push([{ text: 'Refunded', style: 'label' }, `${money(doc, doc.refundedCents ?? 0)} on ${doc.refundedAt.toISOString().slice(0, 10)}`]);
   const content: Content[] = [...header(doc, 'Receipt'), { table: { widths: [120, '*'], body: paid }, layout: 'noBorders', margin: [0, 0, 0, 14] }, linesTable(doc), { text: 'Thank you for your payment.' }];
-  return Buffer.from(await pdfmake.createPdf(definition(content)).getBuffer());
+  return renderPdf(definition(content));
 }

