@@ -1,4 +1,5 @@
 import type { Transaction } from 'sequelize';
+import { batchInsert } from '../db/batchInsert.js';
 import { AuditEvent } from '../db/models/index.js';
 import type { Actor } from './actor.js';
 
@@ -25,8 +26,17 @@ export function snapshot(record: object | null | undefined): object | null {
 
 /** Writes one audit event in the caller's transaction (who, what, before, after, why, from where). */
 export async function audit(actor: Actor | null, entry: AuditEntry, transaction?: Transaction): Promise<void> {
-  await AuditEvent.create(
-    {
+  await AuditEvent.create(eventFields(actor, entry), { transaction });
+}
+
+/** Many audit events in one insert (an import), each exactly as `audit` would write it. */
+export async function auditMany(actor: Actor | null, entries: AuditEntry[], transaction?: Transaction): Promise<void> {
+  if (!transaction) throw new Error('auditMany runs in the caller’s transaction');
+  await batchInsert(AuditEvent, entries.map((e) => eventFields(actor, e)), transaction);
+}
+
+function eventFields(actor: Actor | null, entry: AuditEntry) {
+  return {
       actorUserId: actor?.id ?? null,
       organizationId: entry.organizationId ?? actor?.organizationId ?? null,
       action: entry.action,
@@ -36,7 +46,5 @@ export async function audit(actor: Actor | null, entry: AuditEntry, transaction?
       after: entry.after ?? null,
       reason: entry.reason ?? null,
       ip: actor?.ip ?? null,
-    },
-    { transaction },
-  );
+  };
 }

@@ -22,6 +22,8 @@ export interface QualifierContext {
   titrant: Pick<Titrant, 'expiresOn' | 'lot'>;
   standardization: Pick<Standardization, 'id' | 'validUntil' | 'standardizedAt'> | null;
   settings: BenchSettings;
+  /** Passing calibrations of an organisation in a window, latest first (an import reads them once for its batch). */
+  calibrations?: (q: { organizationId: number; meterId: string | null; from: Date; to: Date }) => Promise<Array<Pick<MeterCalibration, 'id' | 'calibratedAt' | 'meterId'>>>;
 }
 
 const hours = (h: number) => Math.round(h * 10) / 10;
@@ -90,11 +92,12 @@ export async function qualifiersFor(c: QualifierContext, transaction?: Transacti
 
   if (POTENTIOMETRIC_METHODS.includes(c.method)) {
     // A passing calibration on the bench that ran it, earlier the same local day, of the meter used when named.
-    const candidates = await MeterCalibration.findAll({
+    const window = { organizationId: c.performedByOrgId, meterId: c.meterId, from: new Date(c.analysedAt.getTime() - 36 * 3_600_000), to: c.analysedAt };
+    const candidates = c.calibrations ? await c.calibrations(window) : await MeterCalibration.findAll({
       where: {
-        organizationId: c.performedByOrgId,
+        organizationId: window.organizationId,
         passed: true,
-        calibratedAt: { [Op.lte]: c.analysedAt, [Op.gte]: new Date(c.analysedAt.getTime() - 36 * 3_600_000) },
+        calibratedAt: { [Op.lte]: window.to, [Op.gte]: window.from },
         ...(c.meterId ? { meterId: c.meterId } : {}),
       },
       attributes: ['id', 'calibratedAt', 'meterId'],

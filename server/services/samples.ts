@@ -112,31 +112,49 @@ function notInFuture(fields: Record<string, string | null | undefined>) {
 const toDate = (v: string | null | undefined) => (v ? new Date(v) : null);
 
 /** An operator logs a sample at one of their utility's points; the lab may log one for any client. */
-export async function createSample(actor: Actor, input: z.output<typeof sampleCreateSchema>, tx?: Transaction): Promise<SampleView> {
-  const point = await findPoint(actor, input.pointId, tx).catch((e) => {
+/** The point a new sample is logged at, in the actor's scope and in use. */
+export async function pointForSample(actor: Actor, pointId: number, tx?: Transaction): Promise<MonitoringPoint & { facility: Facility }> {
+  const point = await findPoint(actor, pointId, tx).catch((e) => {
     if (e instanceof NotFoundError) throw new ValidationError('Choose one of your monitoring points.', { pointId: 'not found' });
     throw e;
   });
   if (!point.active || !point.facility!.active) throw new ValidationError('This monitoring point is no longer in use.', { pointId: 'inactive point' });
+  return point as MonitoringPoint & { facility: Facility };
+}
+
+/** A new sample's row, checked but not saved (an import saves a batch at once). */
+export function buildSample(actor: Actor, point: MonitoringPoint & { facility: Facility }, input: z.output<typeof sampleCreateSchema>): Sample & { facility: Facility } {
+  notInFuture({ collectedAt: input.collectedAt, receivedAt: input.receivedAt, compositeEndAt: input.compositeEndAt });
+  const s = Sample.build(sampleFields(actor, point, input)) as Sample & { facility: Facility };
+  s.facility = point.facility;
+  return s;
+}
+
+function sampleFields(actor: Actor, point: MonitoringPoint & { facility: Facility }, input: z.output<typeof sampleCreateSchema>) {
+  return {
+    organizationId: point.facility.organizationId,
+    facilityId: point.facilityId,
+    pointId: point.id,
+    sampleType: input.sampleType,
+    compositeStartAt: toDate(input.compositeStartAt),
+    compositeEndAt: toDate(input.compositeEndAt),
+    collectedAt: new Date(input.collectedAt),
+    collectedBy: input.collectedBy,
+    receivedAt: toDate(input.receivedAt),
+    receiptTemperatureC: input.receiptTemperatureC === null || input.receiptTemperatureC === undefined ? null : String(input.receiptTemperatureC),
+    preservation: input.preservation,
+    filtered: input.filtered ?? false,
+    notes: input.notes,
+    createdById: actor.id,
+  };
+}
+
+export async function createSample(actor: Actor, input: z.output<typeof sampleCreateSchema>, tx?: Transaction): Promise<SampleView> {
+  const point = await pointForSample(actor, input.pointId, tx);
   notInFuture({ collectedAt: input.collectedAt, receivedAt: input.receivedAt, compositeEndAt: input.compositeEndAt });
   const created = await inTransaction(tx, async (t) => {
     const s = await Sample.create(
-      {
-        organizationId: point.facility!.organizationId,
-        facilityId: point.facilityId,
-        pointId: point.id,
-        sampleType: input.sampleType,
-        compositeStartAt: toDate(input.compositeStartAt),
-        compositeEndAt: toDate(input.compositeEndAt),
-        collectedAt: new Date(input.collectedAt),
-        collectedBy: input.collectedBy,
-        receivedAt: toDate(input.receivedAt),
-        receiptTemperatureC: input.receiptTemperatureC === null || input.receiptTemperatureC === undefined ? null : String(input.receiptTemperatureC),
-        preservation: input.preservation,
-        filtered: input.filtered ?? false,
-        notes: input.notes,
-        createdById: actor.id,
-      },
+      sampleFields(actor, point, input),
       { transaction: t },
     );
     await audit(actor, { action: 'sample.created', entity: 'sample', entityId: s.id, organizationId: s.organizationId, after: benchSnapshot(s) }, t);

@@ -14,15 +14,16 @@ import type {
 } from '../../shared/schemas/bench.js';
 import { REAGENT_KIND, type BenchSettings } from '../../shared/schemas/bench.js';
 import type { ReviewHistory, TitrationDetail, TitrationView } from '../../shared/types/bench.js';
+import { batchInsert } from '../db/batchInsert.js';
 import { sequelize } from '../db/current.js';
-import { AuditEvent, Facility, Sample, Standardization, Titrant, Titration, TitrationReading, User } from '../db/models/index.js';
+import { AuditEvent, Facility, MeterCalibration, Sample, Standardization, Titrant, Titration, TitrationReading, User } from '../db/models/index.js';
 import { ConflictError, NotFoundError, ValidationError } from '../errors.js';
 import type { Actor } from './actor.js';
 import { audit } from './audit.js';
 import { benchSettings } from './benchSettings.js';
 import { benchSnapshot, num, sampleIncludes, sampleView, titrationIncludes, titrationView } from './benchViews.js';
 import { listParams } from './listing.js';
-import { qualifiersFor } from './qualifiers.js';
+import { qualifiersFor, type QualifierContext } from './qualifiers.js';
 import { assertInScope, orgScope } from './scope.js';
 import { computeTitration, EMPTY_COLUMNS, fieldsUsed, inapplicableFieldErrors, missingInputs, type ComputeInputs } from './titrationCompute.js';
 import { inTransaction } from './transaction.js';
@@ -109,11 +110,71 @@ export async function standardizationAt(titrantId: number, at: Date, t?: Transac
   return Standardization.findOne({ where: { titrantId, accepted: true, standardizedAt: { [Op.lte]: at } }, order: [['standardizedAt', 'DESC'], ['id', 'DESC']], transaction: t });
 }
 
+/**
+ * What computing a new or changed result reads besides its sample: the analyst, the lot, the
+ * lot's standardisation at the analysis time and the meter calibrations. One entry reads them
+ * from the database; an import reads each once for the whole batch (`batchLookups`), so both
+ * decide with the same rules.
+ */
+export interface EntryLookups {
+  user(id: number, t: Transaction): Promise<User | null>;
+  titrant(id: number, t: Transaction): Promise<Titrant | null>;
+  standardizationAt(titrantId: number, at: Date, t: Transaction): Promise<Standardization | null>;
+  calibrations?: QualifierContext['calibrations'];
+}
+
+export const databaseLookups: EntryLookups = {
+  user: (id, t) => User.findByPk(id, { transaction: t }),
+  titrant: (id, t) => Titrant.findByPk(id, { transaction: t }),
+  standardizationAt: (titrantId, at, t) => standardizationAt(titrantId, at, t),
+};
+
+const latestFirst = (a: { at: Date; id: number }, b: { at: Date; id: number }) => b.at.getTime() - a.at.getTime() || b.id - a.id;
+
+/**
+ * Lookups for a batch of new entries, each read once: the lots named, all their accepted
+ * standardisations up to the latest analysis, and the passing calibrations of the organisations
+ * in the batch's time window; each entry then picks from them exactly as the queries would.
+ */
+export async function batchLookups(inputs: Array<{ titrantId: number; analysedAt: Date; performedByOrgId: number }>, t: Transaction): Promise<EntryLookups> {
+  const titrantIds = [...new Set(inputs.map((i) => i.titrantId))];
+  const times = inputs.map((i) => i.analysedAt.getTime());
+  // wide enough for an entry whose analysis time is "now", taken a moment later; each pick below applies the exact bounds
+  const latest = new Date(Math.max(...times, Date.now()) + FUTURE_SLACK_MS);
+  const earliest = new Date(Math.min(...times) - 36 * 3_600_000);
+  const [titrants, standardizations, calibrations, users] = await Promise.all([
+    Titrant.findAll({ where: { id: { [Op.in]: titrantIds } }, transaction: t }),
+    Standardization.findAll({ where: { titrantId: { [Op.in]: titrantIds }, accepted: true, standardizedAt: { [Op.lte]: latest } }, transaction: t }),
+    MeterCalibration.findAll({
+      where: { organizationId: { [Op.in]: [...new Set(inputs.map((i) => i.performedByOrgId))] }, passed: true, calibratedAt: { [Op.lte]: latest, [Op.gte]: earliest } },
+      attributes: ['id', 'calibratedAt', 'meterId', 'organizationId'],
+      transaction: t,
+    }),
+    new Map<number, Promise<User | null>>(),
+  ]);
+  const byTitrant = new Map<number, Standardization[]>();
+  for (const s of standardizations.sort((a, b) => latestFirst({ at: a.standardizedAt, id: a.id }, { at: b.standardizedAt, id: b.id }))) {
+    byTitrant.set(s.titrantId, [...(byTitrant.get(s.titrantId) ?? []), s]);
+  }
+  const sortedCalibrations = calibrations.sort((a, b) => latestFirst({ at: a.calibratedAt, id: a.id }, { at: b.calibratedAt, id: b.id }));
+  return {
+    user: (id, tx) => {
+      if (!users.has(id)) users.set(id, User.findByPk(id, { transaction: tx }));
+      return users.get(id)!;
+    },
+    titrant: async (id) => titrants.find((x) => x.id === id) ?? null,
+    standardizationAt: async (titrantId, at) => (byTitrant.get(titrantId) ?? []).find((s) => s.standardizedAt.getTime() <= at.getTime()) ?? null,
+    calibrations: async ({ organizationId, meterId, from, to }) =>
+      sortedCalibrations.filter((m) => m.organizationId === organizationId && m.calibratedAt.getTime() <= to.getTime() && m.calibratedAt.getTime() >= from.getTime() && (!meterId || m.meterId === meterId)),
+  };
+}
+
 interface ApplyOptions {
   creating: boolean;
   /** Readings to carry over when the body gives none (amendments). */
   carryReadings?: Reading[];
   settings?: BenchSettings;
+  lookups?: EntryLookups;
 }
 
 /**
@@ -122,6 +183,7 @@ interface ApplyOptions {
  * bench's warnings and the qualifiers. Returns the readings to write when they changed.
  */
 async function applyInputs(actor: Actor, row: Titration, sample: Sample & { facility: Facility }, body: Partial<TitrationInput>, opts: ApplyOptions, t: Transaction): Promise<Reading[] | null> {
+  const lookups = opts.lookups ?? databaseLookups;
   const analysis = body.analysis ?? row.analysis;
   const method = body.method ?? row.method;
   const fieldErrors: Record<string, string> = inapplicableFieldErrors(analysis, method, body as Record<string, unknown>);
@@ -140,7 +202,7 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
   let analystId = row.analystId ?? actor.id;
   let performedByOrgId = row.performedByOrgId ?? actor.organizationId;
   if (body.analystId !== undefined && body.analystId !== row.analystId) {
-    const analyst = await User.findByPk(body.analystId, { transaction: t });
+    const analyst = await lookups.user(body.analystId, t);
     if (!analyst || !analyst.active || analyst.organizationId !== actor.organizationId) throw new ValidationError('Choose an active user of your organisation.', { analystId: 'not a user of your organisation' });
     analystId = analyst.id;
     performedByOrgId = analyst.organizationId;
@@ -153,12 +215,12 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
 
   // The lot, and the normality its standardisation gives at the analysis time.
   const titrantId = body.titrantId ?? row.titrantId;
-  const titrant = await Titrant.findByPk(titrantId, { transaction: t });
+  const titrant = await lookups.titrant(titrantId, t);
   if (!titrant || ![sample.organizationId, actor.labId].includes(titrant.organizationId)) throw new ValidationError('Choose a titrant lot of the lab or of this utility.', { titrantId: 'not found' });
   if (body.titrantId !== undefined && body.titrantId !== row.titrantId && !titrant.active) throw new ValidationError('This titrant lot is no longer in use.', { titrantId: 'inactive lot' });
   const needed = analysis === 'alkalinity' ? 'acid' : 'base';
   if (REAGENT_KIND[titrant.reagent] !== needed) throw new ValidationError(`${analysis === 'alkalinity' ? 'Alkalinity is titrated with acid' : 'Acidity is titrated with base'}.`, { titrantId: `must be a standard ${needed}` });
-  const standardization = await standardizationAt(titrant.id, analysedAt, t);
+  const standardization = await lookups.standardizationAt(titrant.id, analysedAt, t);
   const normalityUsed = standardization ? standardization.normality : titrant.nominalNormality;
 
   const settings = opts.settings ?? (await benchSettings(actor.labId, t));
@@ -199,6 +261,7 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
       titrant,
       standardization,
       settings,
+      calibrations: lookups.calibrations,
     },
     t,
   );
@@ -262,8 +325,8 @@ export async function refreshQualifiers(actor: Actor, row: Titration, t: Transac
   await audit(actor, { action: 'titration.requalified', entity: 'titration', entityId: row.id, organizationId: row.organizationId, before, after: { qualifiers } }, t);
 }
 
-/** The sample's status from its current titrations, in one statement. */
-export async function refreshSampleStatus(sampleId: number, t: Transaction) {
+/** The sample's status from its current titrations, in one statement (one sample or many). */
+export async function refreshSampleStatus(sampleId: number | number[], t: Transaction) {
   await sequelize().query(
     `UPDATE samples s SET s.status = (
        SELECT CASE
@@ -272,7 +335,7 @@ export async function refreshSampleStatus(sampleId: number, t: Transaction) {
          WHEN SUM(x.status = 'submitted') > 0 THEN 'submitted'
          ELSE 'approved' END
        FROM titrations x WHERE x.sample_id = s.id AND x.status <> 'superseded'), s.updated_at = s.updated_at
-     WHERE s.id = :sampleId`,
+     WHERE s.id IN (:sampleId)`,
     { replacements: { sampleId }, type: QueryTypes.UPDATE, transaction: t },
   );
 }
@@ -378,23 +441,46 @@ export async function titrationAudit(actor: Actor, id: number, raw: Record<strin
 
 // ---- writing ---------------------------------------------------------------------------------
 
+/**
+ * A new titration of a sample, checked and computed but not saved: the row and its readings.
+ * The sample may be one not yet inserted (an import saves a batch at once); its id is set then.
+ */
+export async function buildTitration(
+  actor: Actor,
+  sample: Sample & { facility: Facility },
+  input: TitrationInput,
+  opts: { settings?: BenchSettings; lookups?: EntryLookups },
+  t: Transaction,
+): Promise<{ row: Titration; readings: Reading[] | null }> {
+  const row = Titration.build({
+    sampleId: sample.id,
+    organizationId: sample.organizationId,
+    pointId: sample.pointId,
+    analysis: input.analysis,
+    method: input.method,
+    createdById: actor.id,
+    analystId: actor.id,
+    performedByOrgId: actor.organizationId,
+    amendsId: null,
+    amendReason: null,
+    notes: null,
+  } as never);
+  const readings = await applyInputs(actor, row, sample, input, { creating: true, settings: opts.settings, lookups: opts.lookups }, t);
+  return { row, readings };
+}
+
+/** Readings of many new titrations in batched inserts. */
+export async function insertReadings(rows: Array<{ titrationId: number; readings: Reading[] }>, t: Transaction) {
+  const all = rows.flatMap(({ titrationId, readings }) =>
+    readings.map((r, k) => ({ titrationId, seq: k + 1, volumeMl: String(r.volumeMl), ph: String(r.pH), temperatureC: r.temperatureC === null || r.temperatureC === undefined ? null : String(r.temperatureC) })),
+  );
+  await batchInsert(TitrationReading, all, t);
+}
+
 export async function createTitration(actor: Actor, sampleId: number, input: TitrationInput, tx?: Transaction, opts: { settings?: BenchSettings } = {}): Promise<TitrationView> {
   const created = await inTransaction(tx, async (t) => {
     const sample = await sampleFor(actor, sampleId, t, true);
-    const row = Titration.build({
-      sampleId: sample.id,
-      organizationId: sample.organizationId,
-      pointId: sample.pointId,
-      analysis: input.analysis,
-      method: input.method,
-      createdById: actor.id,
-      analystId: actor.id,
-      performedByOrgId: actor.organizationId,
-      amendsId: null,
-      amendReason: null,
-      notes: null,
-    } as never);
-    const readings = await applyInputs(actor, row, sample, input, { creating: true, settings: opts.settings }, t);
+    const { row, readings } = await buildTitration(actor, sample, input, opts, t);
     await save(row, t);
     if (readings?.length) await writeReadings(row.id, readings, t);
     await audit(actor, { action: 'titration.created', entity: 'titration', entityId: row.id, organizationId: row.organizationId, after: benchSnapshot(row) }, t);

@@ -1,4 +1,6 @@
+import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { SYNTHETIC_TITRATION } from '../unit/chemistry/fixtures.js';
 import { calculateAlkalinity } from '../../shared/chemistry/service.js';
 import { as, demo } from '../fixtures/auth.js';
 import { kestrelEffluent, localTime, makeAcidLot, makeSite } from '../fixtures/bench.js';
@@ -98,6 +100,60 @@ describe('POST /bench/entries/import: many entries, all or nothing', () => {
       expect(t.results.totalAlkalinity).toBe(calculateAlkalinity({ sampleVolumeMl: 100, titrantNormality: 0.02, volumeToPh83Ml: 0, volumeToTotalEndpointMl: titres[i], totalEndpointPh: 4.5 }).totalAlkalinity);
     }
     expect((await analyst.get(`/api/v1/titrations/${res.body.items[0].titrationId}`)).body.results.totalAlkalinity).toBe(40);
+  });
+
+  it('stores exactly what the single-entry route stores: rows, readings, qualifiers, audit and sample status', async () => {
+    // The import saves in batched inserts with its lookups read once; the single-entry route
+    // goes one query at a time. The same entries through both must leave the same records.
+    const analyst = await as(app, demo.analyst);
+    const expired = await makeAcidLot(app, { standardizedDaysAgo: 40 });
+    const nominal = await makeAcidLot(app, { standardizedDaysAgo: null });
+    const entries = (site: { point: { id: number }; zone: string }) => [
+      entry(site.point.id, localTime(site.zone, 2, '08:00').toISOString()),
+      // 20 days after collection: hold time exceeded (40 CFR 136.3 Table II: 14 days); warm on receipt
+      { ...entry(site.point.id, localTime(site.zone, 25, '08:00').toISOString(), { analysedAt: localTime(site.zone, 5, '08:00').toISOString() }), sample: { ...entry(site.point.id, localTime(site.zone, 25, '08:00').toISOString()).sample, receiptTemperatureC: 9 } },
+      entry(site.point.id, localTime(site.zone, 3, '08:00').toISOString(), { titrantId: expired.id }),
+      entry(site.point.id, localTime(site.zone, 3, '09:00').toISOString(), { titrantId: nominal.id, volumeToTotalEndpointMl: 6.2 }),
+      // a recorded curve on a meter with no calibration that day: readings stored, meter qualifier
+      entry(site.point.id, localTime(site.zone, 4, '08:00').toISOString(), { method: 'potentiometric_curve', volumeToPh83Ml: undefined, volumeToTotalEndpointMl: undefined, meterId: 'M-UNCALIBRATED', readings: SYNTHETIC_TITRATION }),
+      entry(site.point.id, localTime(site.zone, 4, '09:00').toISOString(), { volumeToTotalEndpointMl: 9.9 }, { submit: true }),
+    ];
+    const one = await makeSite(app);
+    const singles = [];
+    for (const e of entries(one)) {
+      const res = await analyst.post('/api/v1/bench/entries').send(e);
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      singles.push({ sampleId: res.body.sample.id, titrationId: res.body.titration.id });
+    }
+    const other = await makeSite(app);
+    const imported = await analyst.post('/api/v1/bench/entries/import').send({ entries: entries(other) });
+    expect(imported.status, JSON.stringify(imported.body)).toBe(201);
+
+    const q = async (sql: string, ids: number[]) => (await sequelize.query(sql, { replacements: { ids }, type: QueryTypes.SELECT })) as Record<string, unknown>[];
+    const strip = (rows: Record<string, unknown>[], drop: string[]) => rows.map((r) => Object.fromEntries(Object.entries(r).filter(([k]) => !drop.includes(k))));
+    const titrations = (ids: number[]) => q('SELECT * FROM titrations WHERE id IN (:ids) ORDER BY id', ids).then((r) => strip(r, ['id', 'sample_id', 'point_id', 'organization_id', 'created_at', 'updated_at', 'submitted_at']));
+    const samples = (ids: number[]) => q('SELECT * FROM samples WHERE id IN (:ids) ORDER BY id', ids).then((r) => strip(r, ['id', 'point_id', 'facility_id', 'organization_id', 'created_at', 'updated_at']));
+    const readings = (ids: number[]) => q('SELECT seq, volume_ml, ph, temperature_c FROM titration_readings WHERE titration_id IN (:ids) ORDER BY titration_id, seq', ids);
+    const auditOf = (entity: string) => async (ids: number[]) =>
+      (await q(`SELECT action, entity_id, \`after\` FROM audit_events WHERE entity = '${entity}' AND entity_id IN (:ids) ORDER BY id`, ids)).map((r) => {
+        const after = typeof r.after === 'string' ? JSON.parse(r.after) : r.after;
+        const { id: _i, sampleId: _s, pointId: _p, facilityId: _f, organizationId: _o, createdAt: _c, updatedAt: _u, submittedAt: _sa, ...rest } = after ?? {};
+        return { action: r.action, position: ids.indexOf(Number(r.entity_id)), after: rest };
+      });
+    const a = { samples: singles.map((x) => x.sampleId), titrations: singles.map((x) => x.titrationId) };
+    const b = { samples: imported.body.items.map((x: { sampleId: number }) => x.sampleId), titrations: imported.body.items.map((x: { titrationId: number }) => x.titrationId) };
+    const ta = await titrations(a.titrations);
+    expect(ta).toHaveLength(6);
+    expect(await titrations(b.titrations)).toEqual(ta);
+    expect(await samples(b.samples)).toEqual(await samples(a.samples));
+    expect((await readings(a.titrations)).length).toBe(SYNTHETIC_TITRATION.length);
+    expect(await readings(b.titrations)).toEqual(await readings(a.titrations));
+    expect(await auditOf('titration')(b.titrations)).toEqual(await auditOf('titration')(a.titrations));
+    expect(await auditOf('sample')(b.samples)).toEqual(await auditOf('sample')(a.samples));
+    // the cases are really there: each qualifier decided from its own evidence
+    const codes = ta.map((r) => (typeof r.qualifiers === 'string' ? JSON.parse(r.qualifiers) : r.qualifiers).map((x: { code: string }) => x.code).sort());
+    expect(codes).toEqual([[], ['hold_time_exceeded', 'receipt_temperature'], ['standardization_expired'], ['standardization_expired'], ['meter_not_calibrated'], []]);
+    expect(ta.map((r) => r.status)).toEqual(['draft', 'draft', 'draft', 'draft', 'draft', 'submitted']);
   });
 
   it('refuses the whole batch when one entry is bad, naming it by position, and keeps none', async () => {

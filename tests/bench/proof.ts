@@ -34,15 +34,20 @@ export async function mainRoutes(base: string, token: (email: string) => Promise
   const operator = await token('operator@kestrelford.example');
   const officer = await token('compliance@kestrelford.example');
   const facility = (await call(operator, 'GET', '/facilities')).items[0];
-  const point = (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items.find((p: any) => p.code === 'EFF-001') ?? (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items[0];
   const titrant = (await call(operator, 'GET', '/titrants?kind=acid')).items[0];
-  const sample = await call(operator, 'POST', '/samples', { pointId: point.id, sampleType: 'grab', collectedAt: new Date(Date.now() - 3_600_000).toISOString() });
+  const points = (await call(operator, 'GET', `/facilities/${facility.id}/points`)).items;
+  // 50 samples: each connection enters on a sample of its own, as analysts at separate benches do
+  const samples: { id: number }[] = [];
+  for (let i = 0; i < 50; i++) samples.push(await call(operator, 'POST', '/samples', { pointId: points[i % points.length].id, sampleType: 'grab', collectedAt: new Date(Date.now() - 3_600_000).toISOString() }));
+  const sample = samples[0];
   const month = new Date(Date.UTC(new Date().getUTCFullYear(), new Date().getUTCMonth() - 1, 1)).toISOString().slice(0, 7);
   const report = (await call(officer, 'GET', `/reports?facilityId=${facility.id}&status=draft`)).items[0] ?? (await call(officer, 'POST', '/reports', { facilityId: facility.id, month }));
   const out: HttpResult[] = [];
   const titration = { analysis: 'alkalinity', method: 'color_indicator', sampleVolumeMl: 100, titrantId: titrant.id, volumeToPh83Ml: 0, volumeToTotalEndpointMl: 6.2, totalEndpointPh: 4.5, analysedAt: new Date().toISOString() };
   for (const connections of [1, 10, 50]) {
-    out.push(await load('POST /samples/:id/titrations (entry)', { url: `${base}/api/v1/samples/${sample.id}/titrations`, method: 'POST', token: operator, connections, duration: 3, body: titration }));
+    out.push(await load('POST /samples/:id/titrations (entry)', { url: `${base}/api/v1/samples/${sample.id}/titrations`, paths: samples.map((s) => `/api/v1/samples/${s.id}/titrations`), method: 'POST', token: operator, connections, duration: 3, body: titration }));
+    // every connection on one sample: each entry waits for the sample's row lock (the worst case)
+    out.push(await load('POST /samples/:id/titrations (entry, all on one sample)', { url: `${base}/api/v1/samples/${sample.id}/titrations`, method: 'POST', token: operator, connections, duration: 3, body: titration }));
     out.push(await load('GET /samples (Bench list, page 1)', { url: `${base}/api/v1/samples?page=1&pageSize=25`, token: operator, connections, duration: 3 }));
     out.push(await load('GET /compliance (facility month)', { url: `${base}/api/v1/compliance?facilityId=${facility.id}&month=${month}`, token: officer, connections, duration: 3 }));
     out.push(await load('GET /reports/:id/pdf (draft, rendered)', { url: `${base}/api/v1/reports/${report.id}/pdf`, token: officer, connections, duration: 3 }));
@@ -56,7 +61,7 @@ export async function mainRoutes(base: string, token: (email: string) => Promise
  * 100 entries, 4 clients: sample, titration, engine, qualifiers and audit for each row); the
  * one-entry-per-request rate of the grid's route is measured beside it.
  */
-export async function ingestRatio(base: string, token: (email: string) => Promise<string>, rows = 2000) {
+export async function ingestRatio(base: string, token: (email: string) => Promise<string>, rows = 2000, batchSize = Number(process.env.INGEST_BATCH ?? 100), clients = Number(process.env.INGEST_CLIENTS ?? 4)) {
   const call = caller(base);
   const operator = await token('operator@kestrelford.example');
   const facility = (await call(operator, 'GET', '/facilities')).items[0];
@@ -80,9 +85,9 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
   let batch = 0;
   const t0 = performance.now();
   await Promise.all(
-    Array.from({ length: 4 }, async () => {
-      for (let b = batch++; b * 100 < rows; b = batch++) {
-        const r = await call(operator, 'POST', '/bench/entries/import', { entries: Array.from({ length: 100 }, (_, k) => entry(b * 100 + k)) });
+    Array.from({ length: clients }, async () => {
+      for (let b = batch++; b * batchSize < rows; b = batch++) {
+        const r = await call(operator, 'POST', '/bench/entries/import', { entries: Array.from({ length: Math.min(batchSize, rows - b * batchSize) }, (_, k) => entry(b * batchSize + k)) });
         ids.push(...r.items.map((x: { titrationId: number }) => x.titrationId));
       }
     }),
