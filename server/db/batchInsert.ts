@@ -50,3 +50,20 @@ export async function batchInsert(model: ModelStatic<Model>, rows: Values[], t: 
   }
   return ids;
 }
+
+/**
+ * Instances built in memory (`Model.build`, defaults applied), saved in one statement; each gets
+ * its id and timestamps as `save` would give them, without Sequelize's per-row save machinery.
+ */
+export async function insertBuilt<M extends Model>(model: ModelStatic<M>, rows: M[], t: Transaction): Promise<M[]> {
+  const now = new Date();
+  for (const row of rows) row.set({ createdAt: now, updatedAt: now } as never, { raw: true });
+  const ids = await batchInsert(model, rows.map((r) => ({ ...(r.dataValues as Values) })), t, now);
+  rows.forEach((row, i) => {
+    row.setDataValue('id' as never, ids[i] as never);
+    row.isNewRecord = false;
+    (row as unknown as { _previousDataValues: Values })._previousDataValues = { ...(row.dataValues as Values) };
+  });
+  return rows;
+}
+

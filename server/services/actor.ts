@@ -31,14 +31,16 @@ export function actorOf(req: Request): Actor {
 
 /**
  * The actor for a user whose organisation is loaded: the lab sees itself and its clients, a
- * utility sees itself. Used by authenticate and by the demo seed, which acts as demo users.
+ * utility sees itself. Used by authenticate (which has read the clients' ids with the user) and
+ * by the demo seed, which acts as demo users.
  */
-export async function actorFor(user: User, ip: string | null = null): Promise<Actor> {
+export async function actorFor(user: User, ip: string | null = null, clientIds?: number[]): Promise<Actor> {
   const org = user.organization;
   if (!org) throw new UnauthenticatedError();
   const labId = org.kind === 'laboratory' ? org.id : (org.labId ?? org.id);
   let visibleOrgIds = [org.id];
-  if (org.kind === 'laboratory') {
+  if (org.kind === 'laboratory' && clientIds) visibleOrgIds = [org.id, ...clientIds];
+  else if (org.kind === 'laboratory') {
     const clients = await Organization.findAll({ where: { labId: org.id }, attributes: ['id'] });
     visibleOrgIds = [org.id, ...clients.map((c) => c.id)];
   }

@@ -4,8 +4,7 @@ import type { benchEntrySchema, benchImportSchema } from '../../shared/schemas/b
 import type { SampleView, TitrationView } from '../../shared/types/bench.js';
 import { AppError, ConflictError, ValidationError } from '../errors.js';
 import type { Actor } from './actor.js';
-import type { Model, ModelStatic, Transaction } from 'sequelize';
-import { batchInsert } from '../db/batchInsert.js';
+import { insertBuilt } from '../db/batchInsert.js';
 import { Sample, Titration } from '../db/models/index.js';
 import { auditMany } from './audit.js';
 import { benchSnapshot } from './benchViews.js';
@@ -43,18 +42,6 @@ export async function createBenchEntry(actor: Actor, input: z.output<typeof benc
   return { sample: await getSample(actor, ids.sampleId), titration: await getTitration(actor, ids.titrationId) };
 }
 
-/** Rows built in memory, saved in one statement; each gets its id and timestamps as `save` would give them. */
-async function insertAll<M extends Model>(model: ModelStatic<M>, rows: M[], t: Transaction): Promise<M[]> {
-  const now = new Date();
-  for (const row of rows) row.set({ createdAt: now, updatedAt: now } as never, { raw: true });
-  const ids = await batchInsert(model, rows.map((r) => r.get({ plain: true }) as Record<string, unknown>), t, now);
-  rows.forEach((row, i) => {
-    row.setDataValue('id' as never, ids[i] as never);
-    row.isNewRecord = false;
-  });
-  return rows;
-}
-
 /**
  * Many entries in one transaction, each checked and computed by the same functions as one typed
  * in the grid (the same rules, engine and qualifiers), but saved in batched inserts: the points,
@@ -87,9 +74,9 @@ export async function importBenchEntries(actor: Actor, input: z.output<typeof be
     }
 
     // Everything checked: the batched writes.
-    const savedSamples = await insertAll(Sample, samples, t);
+    const savedSamples = await insertBuilt(Sample, samples, t);
     built.forEach((b, i) => b.row.set('sampleId', savedSamples[i].id));
-    const savedTitrations = await insertAll(Titration, built.map((b) => b.row), t);
+    const savedTitrations = await insertBuilt(Titration, built.map((b) => b.row), t);
     await insertReadings(savedTitrations.flatMap((row, i) => (built[i].readings?.length ? [{ titrationId: row.id, readings: built[i].readings! }] : [])), t);
     await auditMany(
       actor,

@@ -14,8 +14,9 @@ import type {
 } from '../../shared/schemas/bench.js';
 import { REAGENT_KIND, type BenchSettings } from '../../shared/schemas/bench.js';
 import type { ReviewHistory, TitrationDetail, TitrationView } from '../../shared/types/bench.js';
-import { batchInsert } from '../db/batchInsert.js';
+import { batchInsert, insertBuilt } from '../db/batchInsert.js';
 import { sequelize } from '../db/current.js';
+import { fromRow, rawFind, selectList } from '../db/rawRows.js';
 import { AuditEvent, Facility, MeterCalibration, Sample, Standardization, Titrant, Titration, TitrationReading, User } from '../db/models/index.js';
 import { ConflictError, NotFoundError, ValidationError } from '../errors.js';
 import type { Actor } from './actor.js';
@@ -51,12 +52,19 @@ async function lockTitration(actor: Actor, id: number, t: Transaction): Promise<
 async function sampleFor(actor: Actor, sampleId: number, t?: Transaction, lock = false): Promise<Sample & { facility: Facility }> {
   // Lock the sample row alone: FOR UPDATE on a join would also lock the facility row, which
   // every concurrent sample insert holds a shared lock on through its foreign key (a deadlock).
-  if (lock && t) await Sample.findByPk(sampleId, { attributes: ['id'], transaction: t, lock: t.LOCK.UPDATE });
-  const sample = await Sample.findByPk(sampleId, { include: [{ model: Facility, as: 'facility', attributes: ['id', 'name', 'timezone', 'organizationId'] }], transaction: t });
-  if (!sample) throw new NotFoundError('Sample');
+  if (lock && t) await sequelize().query('SELECT id FROM samples WHERE id = ? FOR UPDATE', { replacements: [sampleId], type: QueryTypes.SELECT, transaction: t });
+  sampleSql ??= `SELECT ${selectList(Sample, 's')}, ${selectList(Facility, 'f', 'facility.', FACILITY_ATTRIBUTES)}
+    FROM samples s LEFT JOIN facilities f ON f.id = s.facility_id WHERE s.id = ?`;
+  const [found] = await sequelize().query<Record<string, unknown>>(sampleSql, { replacements: [sampleId], type: QueryTypes.SELECT, transaction: t });
+  if (!found) throw new NotFoundError('Sample');
+  const sample = fromRow(Sample, found);
   assertInScope(actor, sample.organizationId, 'Sample');
+  sample.facility = fromRow(Facility, found, 'facility.', FACILITY_ATTRIBUTES);
   return sample as Sample & { facility: Facility };
 }
+
+const FACILITY_ATTRIBUTES = ['id', 'name', 'timezone', 'organizationId'] as const;
+let sampleSql: string | null = null;
 
 export async function loadReadings(titrationId: number, t?: Transaction): Promise<Reading[]> {
   const rows = await sequelize().query<{ volume_ml: string; ph: string; temperature_c: string | null }>(
@@ -107,7 +115,8 @@ function storedInputs(row: Titration): ComputeInputs {
 
 /** The current accepted standardisation of a lot at an instant: the latest one made before it. */
 export async function standardizationAt(titrantId: number, at: Date, t?: Transaction) {
-  return Standardization.findOne({ where: { titrantId, accepted: true, standardizedAt: { [Op.lte]: at } }, order: [['standardizedAt', 'DESC'], ['id', 'DESC']], transaction: t });
+  const [found] = await rawFind(Standardization, 'x.titrant_id = ? AND x.accepted = 1 AND x.standardized_at <= ? ORDER BY x.standardized_at DESC, x.id DESC LIMIT 1', [titrantId, at], t);
+  return found ?? null;
 }
 
 /**
@@ -125,7 +134,7 @@ export interface EntryLookups {
 
 export const databaseLookups: EntryLookups = {
   user: (id, t) => User.findByPk(id, { transaction: t }),
-  titrant: (id, t) => Titrant.findByPk(id, { transaction: t }),
+  titrant: async (id, t) => (await rawFind(Titrant, 'x.id = ?', [id], t))[0] ?? null,
   standardizationAt: (titrantId, at, t) => standardizationAt(titrantId, at, t),
 };
 
@@ -219,6 +228,7 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
   if (!titrant || ![sample.organizationId, actor.labId].includes(titrant.organizationId)) throw new ValidationError('Choose a titrant lot of the lab or of this utility.', { titrantId: 'not found' });
   if (body.titrantId !== undefined && body.titrantId !== row.titrantId && !titrant.active) throw new ValidationError('This titrant lot is no longer in use.', { titrantId: 'inactive lot' });
   const needed = analysis === 'alkalinity' ? 'acid' : 'base';
+  row.titrant = titrant;
   if (REAGENT_KIND[titrant.reagent] !== needed) throw new ValidationError(`${analysis === 'alkalinity' ? 'Alkalinity is titrated with acid' : 'Acidity is titrated with base'}.`, { titrantId: `must be a standard ${needed}` });
   const standardization = await lookups.standardizationAt(titrant.id, analysedAt, t);
   const normalityUsed = standardization ? standardization.normality : titrant.nominalNormality;
@@ -481,14 +491,29 @@ export async function createTitration(actor: Actor, sampleId: number, input: Tit
   const created = await inTransaction(tx, async (t) => {
     const sample = await sampleFor(actor, sampleId, t, true);
     const { row, readings } = await buildTitration(actor, sample, input, opts, t);
-    await save(row, t);
+    // a new row: the import's one-statement insert (no optimistic lock to check yet)
+    await insertBuilt(Titration, [row], t);
     if (readings?.length) await writeReadings(row.id, readings, t);
     await audit(actor, { action: 'titration.created', entity: 'titration', entityId: row.id, organizationId: row.organizationId, after: benchSnapshot(row) }, t);
     await refreshSampleStatus(sample.id, t);
     return row;
   });
   // Inside a caller's transaction (the seed) the row itself is returned, without the user names.
-  return tx ? titrationView(created) : viewOf(created.id);
+  return tx ? titrationView(created) : createdView(actor, created);
+}
+
+/**
+ * The view of a titration just created: the stored row read back (the database's rounding of
+ * every figure), with its lot and people from what the request already holds; the same view as
+ * `viewOf` without the six-way join.
+ */
+async function createdView(actor: Actor, created: Titration): Promise<TitrationView> {
+  if (created.createdById !== actor.id || !created.titrant) return viewOf(created.id);
+  const [row, analyst] = await Promise.all([
+    rawFind(Titration, 'x.id = ?', [created.id]).then((r) => r[0]),
+    created.analystId === actor.id ? actor.user : created.analystId ? User.findByPk(created.analystId, { attributes: ['id', 'name'] }) : null,
+  ]);
+  return titrationView(Object.assign(row!, { titrant: created.titrant, analyst, createdBy: actor.user }));
 }
 
 const EDITABLE = new Set(['draft', 'returned']);

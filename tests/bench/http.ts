@@ -75,8 +75,9 @@ export async function load(
     method: opts.method ?? 'GET',
     headers: { 'content-type': 'application/json', ...(opts.token ? { authorization: `Bearer ${opts.token}` } : {}) },
     body: opts.body === undefined ? undefined : JSON.stringify(opts.body),
-    // One path per connection when given (each client on its own record), in turn.
-    setupClient: opts.paths ? (client: { setRequest: (r: { path: string }) => void }) => client.setRequest({ path: opts.paths![nextPath++ % opts.paths!.length] }) : undefined,
+    // One path per connection when given (each client on its own record), in turn. The client's
+    // request list is replaced: `setRequest` would last for its first request only.
+    setupClient: opts.paths ? (client: { setRequests: (r: Array<{ path: string }>) => void }) => client.setRequests([{ path: opts.paths![nextPath++ % opts.paths!.length] }]) : undefined,
       },
       (err: unknown, result: autocannon.Result) => (err ? reject(err) : resolve(result)),
     );
