@@ -13,6 +13,35 @@ interface RawConnection {
   query(sql: string, values: unknown[]): Promise<{ insertId: number | bigint | string; affectedRows: number }>;
 }
 
+interface Plan {
+  head: string;
+  tuple: string;
+  /** per column: its attribute, a timestamp filled with `now`, its default */
+  columns: Array<{ name: string; stamp: boolean; defaultValue: unknown }>;
+}
+const plans = new WeakMap<ModelStatic<Model>, Plan>();
+
+/** The model's INSERT head and column list, worked out once per model. */
+function planOf(model: ModelStatic<Model>): Plan {
+  let plan = plans.get(model);
+  if (plan) return plan;
+  const attributes: Attribute[] = Object.entries(model.getAttributes()).map(([fieldName, a]) => ({ fieldName, field: a.field, autoIncrement: a.autoIncrement, defaultValue: a.defaultValue }));
+  const options = model.options as { timestamps?: boolean; createdAt?: string | boolean; updatedAt?: string | boolean };
+  const stamps = new Set<string>();
+  if (options.timestamps !== false) {
+    if (options.createdAt !== false) stamps.add(typeof options.createdAt === 'string' ? options.createdAt : 'createdAt');
+    if (options.updatedAt !== false) stamps.add(typeof options.updatedAt === 'string' ? options.updatedAt : 'updatedAt');
+  }
+  const columns = attributes.filter((a) => !a.autoIncrement);
+  plan = {
+    head: `INSERT INTO \`${model.getTableName() as string}\` (${columns.map((a) => `\`${a.field ?? a.fieldName}\``).join(',')}) VALUES `,
+    tuple: `(${columns.map(() => '?').join(',')})`,
+    columns: columns.map((a) => ({ name: a.fieldName, stamp: stamps.has(a.fieldName), defaultValue: a.defaultValue })),
+  };
+  plans.set(model, plan);
+  return plan;
+}
+
 /**
  * Rows of one model in one multi-row INSERT on the transaction's own connection, without
  * building Sequelize instances (an import's thousands of rows). Values are keyed by attribute
@@ -22,29 +51,18 @@ interface RawConnection {
  */
 export async function batchInsert(model: ModelStatic<Model>, rows: Values[], t: Transaction, now = new Date()): Promise<number[]> {
   if (!rows.length) return [];
-  const attributes: Attribute[] = Object.entries(model.getAttributes()).map(([fieldName, a]) => ({ fieldName, field: a.field, autoIncrement: a.autoIncrement, defaultValue: a.defaultValue }));
-  const options = model.options as { timestamps?: boolean; createdAt?: string | boolean; updatedAt?: string | boolean };
-  const stamps = new Set<string>();
-  if (options.timestamps !== false) {
-    if (options.createdAt !== false) stamps.add(typeof options.createdAt === 'string' ? options.createdAt : 'createdAt');
-    if (options.updatedAt !== false) stamps.add(typeof options.updatedAt === 'string' ? options.updatedAt : 'updatedAt');
-  }
-  const columns = attributes.filter((a) => !a.autoIncrement);
-  const value = (row: Values, a: Attribute) => {
-    let v = row[a.fieldName];
-    if (v === undefined && stamps.has(a.fieldName)) v = now;
-    if (v === undefined && a.defaultValue !== undefined) v = a.defaultValue;
-    if (v === undefined) v = null;
+  const { head, tuple, columns } = planOf(model);
+  const value = (row: Values, c: Plan['columns'][number]) => {
+    let v = row[c.name];
+    if (v === undefined) v = c.stamp ? now : c.defaultValue === undefined ? null : c.defaultValue;
     if (v !== null && typeof v === 'object' && !(v instanceof Date) && !Buffer.isBuffer(v)) v = JSON.stringify(v);
     return v;
   };
   const ids: number[] = [];
   const conn = (t as unknown as { connection: RawConnection }).connection;
-  const head = `INSERT INTO \`${model.getTableName() as string}\` (${columns.map((a) => `\`${a.field ?? a.fieldName}\``).join(',')}) VALUES `;
-  const tuple = `(${columns.map(() => '?').join(',')})`;
   for (let i = 0; i < rows.length; i += 500) {
     const chunk = rows.slice(i, i + 500);
-    const res = await conn.query(head + chunk.map(() => tuple).join(','), chunk.flatMap((r) => columns.map((a) => value(r, a))));
+    const res = await conn.query(head + chunk.map(() => tuple).join(','), chunk.flatMap((r) => columns.map((c) => value(r, c))));
     const first = Number(res.insertId);
     for (let k = 0; k < chunk.length; k++) ids.push(first + k);
   }

@@ -276,6 +276,9 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
     t,
   );
 
+  // A new row has nothing to compare against: set raw (no per-field change detection; the
+  // types' sanitizers still run). A stored row is set normally so that save writes the changes.
+  const setOptions = opts.creating ? { raw: true } : {};
   row.set({
     analysis,
     method,
@@ -300,8 +303,8 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
     qualifiers,
     qualified: qualifiers.length > 0,
     readingCount: newReadings ? newReadings.length : row.readingCount ?? 0,
-  });
-  for (const k of INPUT_DECIMALS) if (k !== 'sampleVolumeMl') row.set(k, ci[k] === null || ci[k] === undefined ? null : String(ci[k]));
+  }, setOptions);
+  for (const k of INPUT_DECIMALS) if (k !== 'sampleVolumeMl') row.set(k, ci[k] === null || ci[k] === undefined ? null : String(ci[k]), setOptions);
   if (body.notes !== undefined) row.notes = body.notes;
   return newReadings;
 }

@@ -9,15 +9,16 @@
  *    for the lab analyst and the operator, unfiltered and filtered.
  *
  * Runs on the test MariaDB instance (TEST_DB_PORT, default 3407) in its own database
- * `titrata_benchbench`, on port 8192; results go to .data/test-output/bench-bench.json.
+ * `titrata_benchbench`, on port 8192; results go to tests/bench/bench-at-scale.json (committed; `npm run bench` puts them in RESULTS.md).
  * BENCH_LIST_ONLY=1 reuses that database from an earlier run and times only the list.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { QueryTypes } from 'sequelize';
 import { prepareDatabase } from '../../server/bin/bootstrap.js';
 import { startServer } from '../../server/index.js';
-import { testConfig, testDbDir, testOutputDir } from '../setup/env.js';
+import { rootDir } from '../../server/config.js';
+import { testConfig, testDbDir } from '../setup/env.js';
 
 const ENTRIES = Number(process.env.BENCH_ENTRIES ?? 10_000);
 const TARGET = Number(process.env.BENCH_TARGET ?? 100_000);
@@ -168,8 +169,8 @@ async function main() {
     await server.stop();
     await db.stopDatabase();
   }
-  mkdirSync(testOutputDir, { recursive: true });
-  const out = path.join(testOutputDir, 'bench-bench.json');
+  // committed beside RESULTS.md, which `npm run bench` writes with these figures in it
+  const out = path.join(rootDir, 'tests', 'bench', 'bench-at-scale.json');
   writeFileSync(out, JSON.stringify(results, null, 2) + '\n');
   say(`written to ${out}`);
 }
