@@ -98,7 +98,8 @@ export function projectAverage(
     daysSoFar: n,
     remainingSamplingDays: r,
   };
-  const against = `against a ${limit.bound} of ${limit.value}${unit}`;
+  // the limit as written (a stored DECIMAL "60.0000" reads 60)
+  const against = `against a ${limit.bound} of ${limitValue.toString()}${unit}`;
 
   if (n === 0) {
     return {

@@ -199,7 +199,7 @@ describe('early warning', () => {
     const auth = { Authorization: `Bearer ${login.body.token}` };
     const month = await request(app).get(`/api/v1/compliance?facilityId=${s2.facility.id}&month=${now.format('YYYY-MM')}`).set(auth);
     const p = month.body.projections.find((x: { crossesLimit: boolean }) => x.crossesLimit);
-    expect(p.sentence).toMatch(/At the current mean the monthly average will be 40 mg\/L as CaCO3 against a minimum of 60/);
+    expect(p.sentence).toMatch(/At the current mean the monthly average will be 40 mg\/L as CaCO3 against a minimum of 60 mg\/L as CaCO3\./);
 
     expect((await request(app).post('/api/v1/projection-alerts').set(auth).send({})).status).toBe(400);
     const optIn = await request(app).post('/api/v1/projection-alerts').set(auth).send({ facilityId: s2.facility.id });
