@@ -80,7 +80,6 @@ export async function insertBuilt<M extends Model>(model: ModelStatic<M>, rows: 
   rows.forEach((row, i) => {
     row.setDataValue('id' as never, ids[i] as never);
     row.isNewRecord = false;
-    (row as unknown as { _previousDataValues: Values })._previousDataValues = { ...(row.dataValues as Values) };
   });
   return rows;
 }

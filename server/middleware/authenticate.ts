@@ -20,11 +20,12 @@ export function authenticate(config: Config): AuthMiddleware {
     const m = /^Bearer\s+(.+)$/i.exec(header);
     const claims = m ? verifyToken(config, m[1].trim()) : null;
     if (!claims) return next(new UnauthenticatedError(m ? 'Your session is not valid or has expired. Sign in again.' : 'Sign in to continue.'));
-    const user = await sessionUser(claims.userId);
+    const session = await sessionUser(claims.userId);
+    const user = session?.user;
     if (!user || !user.active || user.tokenVersion !== claims.tokenVersion || !user.organization?.active) {
       return next(new UnauthenticatedError('Your session is not valid or has expired. Sign in again.'));
     }
-    req.actor = await actorFor(user, req.ip ?? null, user.clientIds);
+    req.actor = await actorFor(user, req.ip ?? null, session.clientIds);
     next();
   };
 }
@@ -36,7 +37,7 @@ let sessionSql: string | null = null;
  * every request: the same rows `findByPk` with the organisation included and the clients'
  * query would read, without building the query and grouping the join each time.
  */
-async function sessionUser(id: number): Promise<(User & { clientIds: number[] }) | null> {
+async function sessionUser(id: number): Promise<{ user: User; clientIds: number[] } | null> {
   sessionSql ??= `SELECT ${selectList(User, 'u')}, ${selectList(Organization, 'o', 'org.')},
       (SELECT GROUP_CONCAT(c.id ORDER BY c.id) FROM organizations c WHERE c.lab_id = o.id) AS clientIds
     FROM users u JOIN organizations o ON o.id = u.organization_id WHERE u.id = ?`;
@@ -44,6 +45,6 @@ async function sessionUser(id: number): Promise<(User & { clientIds: number[] })
   if (!row) return null;
   const user = fromRow(User, row);
   user.organization = fromRow(Organization, row, 'org.');
-  const clients = typeof row.clientIds === 'string' && row.clientIds ? row.clientIds.split(',').map(Number) : [];
-  return Object.assign(user, { clientIds: clients });
+  const clientIds = typeof row.clientIds === 'string' && row.clientIds ? row.clientIds.split(',').map(Number) : [];
+  return { user, clientIds };
 }

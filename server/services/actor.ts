@@ -39,10 +39,9 @@ export async function actorFor(user: User, ip: string | null = null, clientIds?:
   if (!org) throw new UnauthenticatedError();
   const labId = org.kind === 'laboratory' ? org.id : (org.labId ?? org.id);
   let visibleOrgIds = [org.id];
-  if (org.kind === 'laboratory' && clientIds) visibleOrgIds = [org.id, ...clientIds];
-  else if (org.kind === 'laboratory') {
-    const clients = await Organization.findAll({ where: { labId: org.id }, attributes: ['id'] });
-    visibleOrgIds = [org.id, ...clients.map((c) => c.id)];
+  if (org.kind === 'laboratory') {
+    const clients = clientIds ?? (await Organization.findAll({ where: { labId: org.id }, attributes: ['id'] })).map((c) => c.id);
+    visibleOrgIds = [org.id, ...clients];
   }
   return { user, id: user.id, role: user.role, organizationId: org.id, orgKind: org.kind, labId, visibleOrgIds, ip };
 }

@@ -26,8 +26,8 @@ export function snapshot(record: object | null | undefined): object | null {
 
 /** Writes one audit event in the caller's transaction (who, what, before, after, why, from where). */
 export async function audit(actor: Actor | null, entry: AuditEntry, transaction?: Transaction): Promise<void> {
-  // In a transaction (nearly always) the one-row batch insert: the same row, without create's per-row machinery.
-  if (transaction) await batchInsert(AuditEvent, [eventFields(actor, entry)], transaction);
+  // In a transaction (nearly always) the batch insert of one row: the same row, without create's per-row machinery.
+  if (transaction) await auditMany(actor, [entry], transaction);
   else await AuditEvent.create(eventFields(actor, entry));
 }
 

@@ -228,8 +228,8 @@ async function applyInputs(actor: Actor, row: Titration, sample: Sample & { faci
   if (!titrant || ![sample.organizationId, actor.labId].includes(titrant.organizationId)) throw new ValidationError('Choose a titrant lot of the lab or of this utility.', { titrantId: 'not found' });
   if (body.titrantId !== undefined && body.titrantId !== row.titrantId && !titrant.active) throw new ValidationError('This titrant lot is no longer in use.', { titrantId: 'inactive lot' });
   const needed = analysis === 'alkalinity' ? 'acid' : 'base';
-  row.titrant = titrant;
   if (REAGENT_KIND[titrant.reagent] !== needed) throw new ValidationError(`${analysis === 'alkalinity' ? 'Alkalinity is titrated with acid' : 'Acidity is titrated with base'}.`, { titrantId: `must be a standard ${needed}` });
+  row.titrant = titrant; // the lot in the view of a new result (createdView)
   const standardization = await lookups.standardizationAt(titrant.id, analysedAt, t);
   const normalityUsed = standardization ? standardization.normality : titrant.nominalNormality;
 
@@ -506,17 +506,17 @@ export async function createTitration(actor: Actor, sampleId: number, input: Tit
 }
 
 /**
- * The view of a titration just created: the stored row read back (the database's rounding of
- * every figure), with its lot and people from what the request already holds; the same view as
- * `viewOf` without the six-way join.
+ * The view of a titration the actor has just created: the stored row read back (the database's
+ * rounding of every figure), with the lot `applyInputs` attached and the people the request
+ * holds; the same view as `viewOf` without the six-way join (a new row has no submitter,
+ * approver or returner yet).
  */
 async function createdView(actor: Actor, created: Titration): Promise<TitrationView> {
-  if (created.createdById !== actor.id || !created.titrant) return viewOf(created.id);
-  const [row, analyst] = await Promise.all([
-    rawFind(Titration, 'x.id = ?', [created.id]).then((r) => r[0]),
-    created.analystId === actor.id ? actor.user : created.analystId ? User.findByPk(created.analystId, { attributes: ['id', 'name'] }) : null,
+  const [[row], analyst] = await Promise.all([
+    rawFind(Titration, 'x.id = ?', [created.id]),
+    created.analystId === actor.id ? actor.user : User.findByPk(created.analystId!, { attributes: ['id', 'name'] }),
   ]);
-  return titrationView(Object.assign(row!, { titrant: created.titrant, analyst, createdBy: actor.user }));
+  return titrationView(Object.assign(row, { titrant: created.titrant, analyst, createdBy: actor.user }));
 }
 
 const EDITABLE = new Set(['draft', 'returned']);

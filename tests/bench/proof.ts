@@ -8,10 +8,8 @@ import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import * as mariadb from 'mariadb';
 import { chromium } from 'playwright-core';
-import { QueryTypes } from 'sequelize';
 import { ensureClientBuilt } from '../../server/bin/build-client.js';
 import { dataDir } from '../../server/config.js';
-import { sequelize } from '../../server/db/current.js';
 import { renderReportPdf } from '../../server/services/reportPdf.js';
 import { testConfig, testDbPort } from '../setup/env.js';
 import { load, type HttpResult } from './http.js';
@@ -55,20 +53,21 @@ export async function mainRoutes(base: string, token: (email: string) => Promise
   return out;
 }
 
-/** Rows of `table` with the given ids (or the WHERE given), as arrays ready for a bulk insert. */
+/** The rows of `table` matching `where`, all columns but the id, as arrays ready for a bulk insert. */
 async function storedRows(conn: mariadb.Connection, table: string, where: string, values: unknown[]) {
   const cols = ((await conn.query({ sql: `SELECT COLUMN_NAME AS c FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = ? AND COLUMN_NAME <> 'id' ORDER BY ORDINAL_POSITION` }, [table])) as Array<{ c: string }>).map((r) => `\`${r.c}\``);
   const rows = (await conn.query({ sql: `SELECT ${cols.join(',')} FROM ${table} WHERE ${where}`, rowsAsArray: true }, values)) as unknown[][];
   return { cols, rows: rows.map((r) => r.map((v) => (v !== null && typeof v === 'object' && !(v instanceof Date) && !Buffer.isBuffer(v) ? JSON.stringify(v) : v))) };
 }
 
-/** Three timed bulk inserts of everything the import wrote for the entries (into emptied copies): titrations per second. */
-async function rawAllRows(conn: mariadb.Connection, titrationIds: number[], sampleIds: number[]): Promise<number[]> {
-  const sets = {
-    samples: await storedRows(conn, 'samples', 'id IN (?)', [sampleIds]),
-    titrations: await storedRows(conn, 'titrations', 'id IN (?)', [titrationIds]),
-    audit_events: await storedRows(conn, 'audit_events', "(entity = 'sample' AND entity_id IN (?)) OR (entity = 'titration' AND entity_id IN (?))", [sampleIds.map(String), titrationIds.map(String)]),
-  };
+type StoredSets = Record<string, Awaited<ReturnType<typeof storedRows>>>;
+
+/**
+ * Three timed bulk inserts of the stored rows of each table into an emptied copy, in one
+ * transaction each time: titrations per second, for the median (one short insert varied
+ * two-fold between runs).
+ */
+async function rawInsertRates(conn: mariadb.Connection, sets: StoredSets, titrations: number): Promise<number[]> {
   for (const table of Object.keys(sets)) {
     await conn.query(`DROP TABLE IF EXISTS ${table}_raw`);
     await conn.query(`CREATE TABLE ${table}_raw LIKE ${table}`);
@@ -81,13 +80,15 @@ async function rawAllRows(conn: mariadb.Connection, titrationIds: number[], samp
       await conn.beginTransaction();
       for (const [table, { cols, rows }] of Object.entries(sets)) await conn.batch(`INSERT INTO ${table}_raw (${cols.join(',')}) VALUES (${cols.map(() => '?').join(',')})`, rows);
       await conn.commit();
-      rates.push(titrationIds.length / ((performance.now() - t0) / 1000));
+      rates.push(titrations / ((performance.now() - t0) / 1000));
     }
   } finally {
     for (const table of Object.keys(sets)) await conn.query(`DROP TABLE IF EXISTS ${table}_raw`);
   }
   return rates;
 }
+
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
 /**
  * Titration ingest through the API against a raw batch insert of the same stored rows with the
@@ -130,33 +131,36 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
   );
   const apiSeconds = (performance.now() - t0) / 1000;
 
-  const sq = sequelize();
-  const cols = (await sq.query<{ c: string }>("SELECT COLUMN_NAME AS c FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = 'titrations' AND COLUMN_NAME <> 'id' ORDER BY ORDINAL_POSITION", { type: QueryTypes.SELECT })).map((r) => r.c);
   const config = testConfig('titrata_bench');
   const conn = await mariadb.createConnection({ host: '127.0.0.1', port: testDbPort, user: config.DB_USER, password: config.DB_PASSWORD, database: config.DB_NAME });
   try {
-    await conn.query('DROP TABLE IF EXISTS titrations_raw');
-    await conn.query('CREATE TABLE titrations_raw LIKE titrations');
-    const stored = (await conn.query({ sql: `SELECT ${cols.map((c) => `\`${c}\``).join(',')} FROM titrations WHERE id IN (?)`, rowsAsArray: true }, [ids])) as unknown[][];
-    const values = stored.map((r) => r.map((v) => (v !== null && typeof v === 'object' && !(v instanceof Date) && !Buffer.isBuffer(v) ? JSON.stringify(v) : v)));
-    // three timed inserts into an emptied copy, the median taken: one short insert varied two-fold between runs
-    const rawRates: number[] = [];
-    for (let k = 0; k < 3; k++) {
-      await conn.query('TRUNCATE TABLE titrations_raw');
-      const t1 = performance.now();
-      await conn.beginTransaction();
-      await conn.batch(`INSERT INTO titrations_raw (${cols.map((c) => `\`${c}\``).join(',')}) VALUES (${cols.map(() => '?').join(',')})`, values);
-      await conn.commit();
-      rawRates.push(stored.length / ((performance.now() - t1) / 1000));
-    }
-    await conn.query('DROP TABLE titrations_raw');
+    const titrations = await storedRows(conn, 'titrations', 'id IN (?)', [ids]);
+    const rawRates = await rawInsertRates(conn, { titrations }, ids.length);
     // For comparison (not the target): every row the import wrote for these entries (the samples,
     // titrations and their two audit events), bulk-inserted the same way; titrations per second.
-    const allRates = await rawAllRows(conn, ids, sampleIds);
+    const allRates = await rawInsertRates(
+      conn,
+      {
+        samples: await storedRows(conn, 'samples', 'id IN (?)', [sampleIds]),
+        titrations,
+        audit_events: await storedRows(conn, 'audit_events', "(entity = 'sample' AND entity_id IN (?)) OR (entity = 'titration' AND entity_id IN (?))", [sampleIds.map(String), ids.map(String)]),
+      },
+      ids.length,
+    );
     const apiRate = rows / apiSeconds;
-    const rawRate = rawRates.sort((a, b) => a - b)[1];
-    const rawAllRate = allRates.sort((a, b) => a - b)[1];
-    return { rows, apiPerSecond: Math.round(apiRate), singleEntryPerSecond: Math.round(singlePerSecond), rawPerSecond: Math.round(rawRate), rawRuns: rawRates.map(Math.round), ratio: Math.round((apiRate / rawRate) * 1000) / 1000, rawAllRowsPerSecond: Math.round(rawAllRate), ratioAllRows: Math.round((apiRate / rawAllRate) * 1000) / 1000, note: `through POST /bench/entries/import, 100 entries a request, 4 clients (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone` };
+    const rawRate = median(rawRates);
+    const rawAllRate = median(allRates);
+    return {
+      rows,
+      apiPerSecond: Math.round(apiRate),
+      singleEntryPerSecond: Math.round(singlePerSecond),
+      rawPerSecond: Math.round(rawRate),
+      rawRuns: rawRates.map(Math.round),
+      ratio: Math.round((apiRate / rawRate) * 1000) / 1000,
+      rawAllRowsPerSecond: Math.round(rawAllRate),
+      ratioAllRows: Math.round((apiRate / rawAllRate) * 1000) / 1000,
+      note: `through POST /bench/entries/import, ${batchSize} entries a request, ${clients} clients (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone`,
+    };
   } finally {
     await conn.end();
   }
