@@ -10,8 +10,25 @@ interface Attribute {
 
 /** The connection a Sequelize transaction holds (the mariadb connector's own). */
 interface RawConnection {
-  query(sql: string, values: unknown[]): Promise<{ insertId: number | bigint | string; affectedRows: number }>;
+  execute(sql: string, values: unknown[]): Promise<{ insertId: number | bigint | string; affectedRows: number }>;
 }
+
+/** Rows a statement at most (a titration has about 65 columns: well under the 65,535 placeholders a statement may have). */
+const CHUNK = 500;
+const tupleLists = new Map<string, string>();
+/** `(?,…),(?,…)…` for `count` rows, kept: an import's statements repeat the same few texts. */
+function tupleList(tuple: string, count: number): string {
+  const key = `${count}${tuple}`;
+  let list = tupleLists.get(key);
+  if (list === undefined) tupleLists.set(key, (list = Array.from({ length: count }, () => tuple).join(',')));
+  return list;
+}
+
+/**
+ * A time as the UTC text Sequelize writes (`2026-03-08 06:30:15.123`): the connector would
+ * write a Date in the process's local time, so a server not on UTC would store shifted times.
+ */
+const utc = (d: Date) => d.toISOString().slice(0, 23).replace('T', ' ');
 
 interface Plan {
   head: string;
@@ -52,17 +69,24 @@ function planOf(model: ModelStatic<Model>): Plan {
 export async function batchInsert(model: ModelStatic<Model>, rows: Values[], t: Transaction, now = new Date()): Promise<number[]> {
   if (!rows.length) return [];
   const { head, tuple, columns } = planOf(model);
-  const value = (row: Values, c: Plan['columns'][number]) => {
-    let v = row[c.name];
-    if (v === undefined) v = c.stamp ? now : c.defaultValue === undefined ? null : c.defaultValue;
-    if (v !== null && typeof v === 'object' && !(v instanceof Date) && !Buffer.isBuffer(v)) v = JSON.stringify(v);
-    return v;
-  };
   const ids: number[] = [];
   const conn = (t as unknown as { connection: RawConnection }).connection;
-  for (let i = 0; i < rows.length; i += 500) {
-    const chunk = rows.slice(i, i + 500);
-    const res = await conn.query(head + chunk.map(() => tuple).join(','), chunk.flatMap((r) => columns.map((c) => value(r, c))));
+  for (let i = 0; i < rows.length; i += CHUNK) {
+    const chunk = rows.length <= CHUNK ? rows : rows.slice(i, i + CHUNK);
+    const values: unknown[] = new Array(chunk.length * columns.length);
+    let n = 0;
+    for (const row of chunk) {
+      for (const c of columns) {
+        let v = row[c.name];
+        if (v === undefined) v = c.stamp ? now : c.defaultValue === undefined ? null : c.defaultValue;
+        if (v instanceof Date) v = utc(v);
+        else if (v !== null && typeof v === 'object' && !Buffer.isBuffer(v)) v = JSON.stringify(v);
+        values[n++] = v;
+      }
+    }
+    // the binary protocol (a prepared statement, cached by the connector per text): values go
+    // as they are, without escaping them into the statement's text
+    const res = await conn.execute(head + tupleList(tuple, chunk.length), values);
     const first = Number(res.insertId);
     for (let k = 0; k < chunk.length; k++) ids.push(first + k);
   }

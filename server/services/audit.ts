@@ -17,11 +17,13 @@ const HIDDEN = new Set(['passwordHash', 'tokenVersion']);
 const ASSOCIATIONS = new Set(['organization', 'facility', 'point', 'points', 'lab', 'clients', 'actor', 'sample', 'titrant']);
 
 /** A plain copy of a record for the audit log, without secrets or loaded associations. */
-export function snapshot(record: object | null | undefined): object | null {
+export function snapshot(record: object | null | undefined, leaveOut?: (key: string) => boolean): object | null {
   if (!record) return null;
   const withGet = record as { get?: (o: { plain: true }) => object };
-  const plain = typeof withGet.get === 'function' ? withGet.get({ plain: true }) : record;
-  return Object.fromEntries(Object.entries(plain).filter(([k]) => !HIDDEN.has(k) && !ASSOCIATIONS.has(k)));
+  const plain = (typeof withGet.get === 'function' ? withGet.get({ plain: true }) : record) as Record<string, unknown>;
+  const out: Record<string, unknown> = {};
+  for (const k of Object.keys(plain)) if (!HIDDEN.has(k) && !ASSOCIATIONS.has(k) && !leaveOut?.(k)) out[k] = plain[k];
+  return out;
 }
 
 /** Writes one audit event in the caller's transaction (who, what, before, after, why, from where). */

@@ -260,6 +260,5 @@ const BENCH_ASSOCIATIONS = new Set(['readings', 'analyst', 'submittedBy', 'appro
  * full engine output (its inputs and stored result columns are what the trail compares).
  */
 export function benchSnapshot(record: object | null | undefined): object | null {
-  const s = snapshot(record);
-  return s && Object.fromEntries(Object.entries(s).filter(([k]) => !BENCH_ASSOCIATIONS.has(k) && k !== 'result'));
+  return snapshot(record, (k) => BENCH_ASSOCIATIONS.has(k) || k === 'result');
 }

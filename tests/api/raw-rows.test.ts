@@ -2,6 +2,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import dayjs from 'dayjs';
 import { setSequelize } from '../../server/db/current.js';
 import { Facility, Organization, Sample, Standardization, Titrant, Titration, User, initModels } from '../../server/db/models/index.js';
+import { insertBuilt } from '../../server/db/batchInsert.js';
 import { fromRow, rawFind, selectList } from '../../server/db/rawRows.js';
 import { as, demo } from '../fixtures/auth.js';
 import { kestrelEffluent, makeAcidLot, makeResult } from '../fixtures/bench.js';
@@ -48,5 +49,35 @@ describe('raw reads give the instances model queries give', () => {
     expect(read.body).toMatchObject(titration);
     expect(titration.analyst).toMatchObject({ name: expect.any(String) });
     expect(titration.titrant).toMatchObject({ id: acid.id });
+  });
+});
+
+// The batch insert hands the connector UTC text, as Sequelize's own writes do: a Date given to
+// the connector as it is goes in the process's local time, so a server not on UTC stored
+// shifted times (the seed's results then came out analysed before their collection).
+describe('the batch insert stores times in UTC whatever the process time zone', () => {
+  it('a titration and its audit event inserted under America/New_York read back unshifted', async () => {
+    const saved = process.env.TZ;
+    const analysedAt = new Date('2026-03-08T06:30:15.123Z');
+    process.env.TZ = 'America/New_York';
+    let id: number;
+    try {
+      expect(new Date(2026, 2, 8, 6).getTimezoneOffset()).not.toBe(0); // the zone took effect
+      const sample = (await Sample.findOne({ order: [['id', 'DESC']] }))!;
+      const titration = (await Titration.findOne({ where: { sampleId: sample.id } })) ?? (await Titration.findOne())!;
+      const row = Titration.build({ ...titration.get({ plain: true }), id: undefined, analysedAt } as never);
+      await sequelize.transaction(async (t) => {
+        await insertBuilt(Titration, [row], t);
+      });
+      id = row.id;
+    } finally {
+      if (saved === undefined) delete process.env.TZ;
+      else process.env.TZ = saved;
+    }
+    const back = await Titration.findByPk(id!);
+    expect(back!.analysedAt.toISOString()).toBe('2026-03-08T06:30:15.123Z');
+    const [text] = await sequelize.query<{ at: string }>('SELECT CAST(analysed_at AS CHAR) AS at FROM titrations WHERE id = ?', { replacements: [id!], type: QueryTypes.SELECT });
+    expect(text.at).toBe('2026-03-08 06:30:15.123');
+    await Titration.destroy({ where: { id: id! } });
   });
 });
