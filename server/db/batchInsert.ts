@@ -99,8 +99,11 @@ export async function batchInsert(model: ModelStatic<Model>, rows: Values[], t: 
  */
 export async function insertBuilt<M extends Model>(model: ModelStatic<M>, rows: M[], t: Transaction): Promise<M[]> {
   const now = new Date();
-  for (const row of rows) row.set({ createdAt: now, updatedAt: now } as never, { raw: true });
-  const ids = await batchInsert(model, rows.map((r) => ({ ...(r.dataValues as Values) })), t, now);
+  for (const row of rows) {
+    row.setDataValue('createdAt' as never, now as never);
+    row.setDataValue('updatedAt' as never, now as never);
+  }
+  const ids = await batchInsert(model, rows.map((r) => r.dataValues as Values), t, now);
   rows.forEach((row, i) => {
     row.setDataValue('id' as never, ids[i] as never);
     row.isNewRecord = false;

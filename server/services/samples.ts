@@ -125,7 +125,7 @@ export async function pointForSample(actor: Actor, pointId: number, tx?: Transac
 /** A new sample's row, checked but not saved (an import saves a batch at once). */
 export function buildSample(actor: Actor, point: MonitoringPoint & { facility: Facility }, input: z.output<typeof sampleCreateSchema>): Sample & { facility: Facility } {
   notInFuture({ collectedAt: input.collectedAt, receivedAt: input.receivedAt, compositeEndAt: input.compositeEndAt });
-  const s = Sample.build(sampleFields(actor, point, input)) as Sample & { facility: Facility };
+  const s = Sample.build(sampleFields(actor, point, input), { raw: true }) as Sample & { facility: Facility };
   s.facility = point.facility;
   return s;
 }

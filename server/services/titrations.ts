@@ -151,14 +151,14 @@ export async function batchLookups(inputs: Array<{ titrantId: number; analysedAt
   // wide enough for an entry whose analysis time is "now", taken a moment later; each pick below applies the exact bounds
   const latest = new Date(Math.max(...times, Date.now()) + FUTURE_SLACK_MS);
   const earliest = new Date(Math.min(...times) - 36 * 3_600_000);
+  // raw reads (a batch's window can hold a hundred calibrations: instances of them cost more than the statement)
   const [titrants, standardizations, calibrations, users] = await Promise.all([
-    Titrant.findAll({ where: { id: { [Op.in]: titrantIds } }, transaction: t }),
-    Standardization.findAll({ where: { titrantId: { [Op.in]: titrantIds }, accepted: true, standardizedAt: { [Op.lte]: latest } }, transaction: t }),
-    MeterCalibration.findAll({
-      where: { organizationId: { [Op.in]: [...new Set(inputs.map((i) => i.performedByOrgId))] }, passed: true, calibratedAt: { [Op.lte]: latest, [Op.gte]: earliest } },
-      attributes: ['id', 'calibratedAt', 'meterId', 'organizationId'],
-      transaction: t,
-    }),
+    rawFind(Titrant, 'x.id IN (?)', [titrantIds], t),
+    rawFind(Standardization, 'x.titrant_id IN (?) AND x.accepted = 1 AND x.standardized_at <= ?', [titrantIds, latest], t),
+    sequelize().query<{ id: number; calibratedAt: Date; meterId: string | null; organizationId: number }>(
+      'SELECT id, calibrated_at AS calibratedAt, meter_id AS meterId, organization_id AS organizationId FROM meter_calibrations WHERE organization_id IN (?) AND passed = 1 AND calibrated_at <= ? AND calibrated_at >= ?',
+      { replacements: [[...new Set(inputs.map((i) => i.performedByOrgId))], latest, earliest], type: QueryTypes.SELECT, transaction: t },
+    ),
     new Map<number, Promise<User | null>>(),
   ]);
   const byTitrant = new Map<number, Standardization[]>();
@@ -477,7 +477,7 @@ export async function buildTitration(
     amendsId: null,
     amendReason: null,
     notes: null,
-  } as never);
+  } as never, { raw: true });
   const readings = await applyInputs(actor, row, sample, input, { creating: true, settings: opts.settings, lookups: opts.lookups }, t);
   return { row, readings };
 }

@@ -108,6 +108,10 @@ describe('POST /bench/entries/import: many entries, all or nothing', () => {
     const analyst = await as(app, demo.analyst);
     const expired = await makeAcidLot(app, { standardizedDaysAgo: 40 });
     const nominal = await makeAcidLot(app, { standardizedDaysAgo: null });
+    // a passing calibration of meter M-CAL that morning (the import picks it from its batch read)
+    const meter = `M-CAL-${Date.now()}`;
+    const calibration = await analyst.post('/api/v1/calibrations').send({ meterId: meter, calibratedAt: localTime('America/Chicago', 4, '07:00').toISOString(), temperatureC: 25, buffers: [{ nominalPh: 7, mV: -0.5 }, { nominalPh: 4, mV: 172.6 }, { nominalPh: 10, mV: -170 }] });
+    expect(calibration.status, JSON.stringify(calibration.body)).toBe(201);
     const entries = (site: { point: { id: number }; zone: string }) => [
       entry(site.point.id, localTime(site.zone, 2, '08:00').toISOString()),
       // 20 days after collection: hold time exceeded (40 CFR 136.3 Table II: 14 days); warm on receipt
@@ -116,6 +120,8 @@ describe('POST /bench/entries/import: many entries, all or nothing', () => {
       entry(site.point.id, localTime(site.zone, 3, '09:00').toISOString(), { titrantId: nominal.id, volumeToTotalEndpointMl: 6.2 }),
       // a recorded curve on a meter with no calibration that day: readings stored, meter qualifier
       entry(site.point.id, localTime(site.zone, 4, '08:00').toISOString(), { method: 'potentiometric_curve', volumeToPh83Ml: undefined, volumeToTotalEndpointMl: undefined, meterId: 'M-UNCALIBRATED', readings: SYNTHETIC_TITRATION }),
+      // the same curve on the meter calibrated that morning: no meter qualifier
+      entry(site.point.id, localTime(site.zone, 4, '10:00').toISOString(), { method: 'potentiometric_curve', volumeToPh83Ml: undefined, volumeToTotalEndpointMl: undefined, meterId: meter, readings: SYNTHETIC_TITRATION }),
       entry(site.point.id, localTime(site.zone, 4, '09:00').toISOString(), { volumeToTotalEndpointMl: 9.9 }, { submit: true }),
     ];
     const one = await makeSite(app);
@@ -143,17 +149,17 @@ describe('POST /bench/entries/import: many entries, all or nothing', () => {
     const a = { samples: singles.map((x) => x.sampleId), titrations: singles.map((x) => x.titrationId) };
     const b = { samples: imported.body.items.map((x: { sampleId: number }) => x.sampleId), titrations: imported.body.items.map((x: { titrationId: number }) => x.titrationId) };
     const ta = await titrations(a.titrations);
-    expect(ta).toHaveLength(6);
+    expect(ta).toHaveLength(7);
     expect(await titrations(b.titrations)).toEqual(ta);
     expect(await samples(b.samples)).toEqual(await samples(a.samples));
-    expect((await readings(a.titrations)).length).toBe(SYNTHETIC_TITRATION.length);
+    expect((await readings(a.titrations)).length).toBe(2 * SYNTHETIC_TITRATION.length);
     expect(await readings(b.titrations)).toEqual(await readings(a.titrations));
     expect(await auditOf('titration')(b.titrations)).toEqual(await auditOf('titration')(a.titrations));
     expect(await auditOf('sample')(b.samples)).toEqual(await auditOf('sample')(a.samples));
     // the cases are really there: each qualifier decided from its own evidence
     const codes = ta.map((r) => (typeof r.qualifiers === 'string' ? JSON.parse(r.qualifiers) : r.qualifiers).map((x: { code: string }) => x.code).sort());
-    expect(codes).toEqual([[], ['hold_time_exceeded', 'receipt_temperature'], ['standardization_expired'], ['standardization_expired'], ['meter_not_calibrated'], []]);
-    expect(ta.map((r) => r.status)).toEqual(['draft', 'draft', 'draft', 'draft', 'draft', 'submitted']);
+    expect(codes).toEqual([[], ['hold_time_exceeded', 'receipt_temperature'], ['standardization_expired'], ['standardization_expired'], ['meter_not_calibrated'], [], []]);
+    expect(ta.map((r) => r.status)).toEqual(['draft', 'draft', 'draft', 'draft', 'draft', 'draft', 'submitted']);
   });
 
   it('refuses the whole batch when one entry is bad, naming it by position, and keeps none', async () => {
