@@ -155,7 +155,7 @@ export async function batchLookups(inputs: Array<{ titrantId: number; analysedAt
   const [titrants, standardizations, calibrations, users] = await Promise.all([
     rawFind(Titrant, 'x.id IN (?)', [titrantIds], t),
     rawFind(Standardization, 'x.titrant_id IN (?) AND x.accepted = 1 AND x.standardized_at <= ?', [titrantIds, latest], t),
-    sequelize().query<{ id: number; calibratedAt: Date; meterId: string | null; organizationId: number }>(
+    sequelize().query<{ id: number; calibratedAt: Date; meterId: string; organizationId: number }>(
       'SELECT id, calibrated_at AS calibratedAt, meter_id AS meterId, organization_id AS organizationId FROM meter_calibrations WHERE organization_id IN (?) AND passed = 1 AND calibrated_at <= ? AND calibrated_at >= ?',
       { replacements: [[...new Set(inputs.map((i) => i.performedByOrgId))], latest, earliest], type: QueryTypes.SELECT, transaction: t },
     ),
