@@ -168,7 +168,7 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
       ratio: Math.round((apiRate / rawRate) * 1000) / 1000,
       rawAllRowsPerSecond: Math.round(rawAllRate),
       ratioAllRows: Math.round((apiRate / rawAllRate) * 1000) / 1000,
-      note: `through POST /bench/entries/import, ${batchSize} entries a request, ${clients} clients, after an untimed run of ${Math.min(rows, 1000)} rows (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone`,
+      note: `Through POST /bench/entries/import, ${batchSize} entries a request, ${clients} clients, after an untimed run of ${Math.min(rows, 1000)} rows (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone`,
     };
   } finally {
     await conn.end();
