@@ -11,14 +11,21 @@ export const apiNotFound: RequestHandler = (req, res) => {
   res.status(404).json(body);
 };
 
-function isDbDown(err: unknown): boolean {
+/**
+ * The connector's and the socket's codes for a database that is gone or going: refused, reset,
+ * closed under a command, shutting down, the connection killed or timed out.
+ */
+const DB_DOWN = /^(ECONNREFUSED|ECONNRESET|EPIPE|ETIMEDOUT|PROTOCOL_CONNECTION_LOST|ER_GET_CONNECTION_TIMEOUT|ER_CONNECTION_TIMEOUT|ER_SOCKET_UNEXPECTED_CLOSE|ER_SOCKET_TIMEOUT|ER_CLIENT_CLOSED_CONNECTION|ER_CMD_CONNECTION_CLOSED|ER_CONNECTION_ALREADY_CLOSED|ER_CMD_NOT_EXECUTED_DESTROYED|ER_SERVER_SHUTDOWN|ER_CONNECTION_KILLED)$/;
+
+/**
+ * A lost database, whether the error came through Sequelize (wrapped, the connector's error as
+ * `parent`) or straight from the connector (the batch insert runs on the transaction's own
+ * connection, so its errors are not wrapped).
+ */
+export function isDbDown(err: unknown): boolean {
   if (err instanceof ConnectionError || err instanceof TimeoutError) return true;
-  if (err instanceof BaseError) {
-    const code = (err as { parent?: { code?: string } }).parent?.code ?? '';
-    return /ECONNREFUSED|ER_GET_CONNECTION_TIMEOUT|ER_CONNECTION_TIMEOUT|ER_SOCKET_UNEXPECTED_CLOSE|ECONNRESET|PROTOCOL_CONNECTION_LOST|ER_CLIENT_CLOSED_CONNECTION/.test(code);
-  }
-  const code = (err as { code?: string })?.code ?? '';
-  return /ECONNREFUSED|ER_GET_CONNECTION_TIMEOUT/.test(code);
+  const raw = (err instanceof BaseError ? (err as { parent?: unknown }).parent : err) as { code?: unknown } | null | undefined;
+  return typeof raw?.code === 'string' && DB_DOWN.test(raw.code);
 }
 
 /**

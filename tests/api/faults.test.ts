@@ -1,4 +1,5 @@
 import dayjs from 'dayjs';
+import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startInstance, stopInstance } from '../../server/bin/mariadb.js';
@@ -101,4 +102,43 @@ describe('concurrent approvals of one result', () => {
     expect(after.body.status).toBe('approved');
     expect(after.body.version).toBe(sub.body.version + 1);
   });
+});
+
+describe('a connection lost under the batch insert', () => {
+  it('answers 503, not 500, and leaves nothing of the write', async () => {
+    // New rows' audit events go in on the transaction's own connection, outside Sequelize, so
+    // the connector's errors reach the handler unwrapped. A trigger holds that insert while this
+    // test kills its connection (as a server shutting down or a dropped socket would).
+    const marker = `kill-under-insert-${Date.now()}`;
+    await sequelize.query('DROP TRIGGER IF EXISTS audit_hold_for_fault_test');
+    await sequelize.query(`CREATE TRIGGER audit_hold_for_fault_test BEFORE INSERT ON audit_events FOR EACH ROW BEGIN IF NEW.\`after\` LIKE '%${marker}%' THEN DO SLEEP(3); END IF; END`);
+    try {
+      const pending = request(app)
+        .post('/api/v1/samples')
+        .set('Authorization', `Bearer ${writerToken}`)
+        .send({ sampleType: 'grab', pointId: site.point.id, collectedAt: dayjs().subtract(1, 'hour').toISOString(), notes: marker })
+        .then((r) => r);
+      // the held INSERT, found in the process list and killed
+      let killed = false;
+      for (let k = 0; k < 50 && !killed; k++) {
+        await new Promise((r) => setTimeout(r, 50));
+        // the held statement shows as the trigger's sleep, on a connection executing a prepared statement
+        const rows = await sequelize.query<{ id: number }>("SELECT ID AS id FROM information_schema.PROCESSLIST WHERE COMMAND = 'Execute' AND INFO = 'DO SLEEP(3)' AND ID <> CONNECTION_ID()", { type: QueryTypes.SELECT });
+        for (const r of rows) {
+          await sequelize.query(`KILL CONNECTION ${Number(r.id)}`);
+          killed = true;
+        }
+      }
+      expect(killed).toBe(true);
+      const res = await pending;
+      expect(res.status, JSON.stringify(res.body)).toBe(503);
+      expect(res.body.error.code).toBe('service_unavailable');
+      // nothing half-saved: the sample went with its transaction
+      expect(await Sample.count({ where: { notes: marker } })).toBe(0);
+      // and the app goes on (the pool drops the dead connection)
+      expect((await write(0)).status).toBe(201);
+    } finally {
+      await sequelize.query('DROP TRIGGER IF EXISTS audit_hold_for_fault_test');
+    }
+  }, 30000);
 });
