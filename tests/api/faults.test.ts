@@ -111,7 +111,7 @@ describe('a connection lost under the batch insert', () => {
     // test kills its connection (as a server shutting down or a dropped socket would).
     const marker = `kill-under-insert-${Date.now()}`;
     await sequelize.query('DROP TRIGGER IF EXISTS audit_hold_for_fault_test');
-    await sequelize.query(`CREATE TRIGGER audit_hold_for_fault_test BEFORE INSERT ON audit_events FOR EACH ROW BEGIN IF NEW.\`after\` LIKE '%${marker}%' THEN DO SLEEP(3); END IF; END`);
+    await sequelize.query(`CREATE TRIGGER audit_hold_for_fault_test BEFORE INSERT ON audit_events FOR EACH ROW BEGIN IF NEW.\`after\` LIKE '%${marker}%' THEN DO SLEEP(10); END IF; END`);
     try {
       const pending = request(app)
         .post('/api/v1/samples')
@@ -120,10 +120,10 @@ describe('a connection lost under the batch insert', () => {
         .then((r) => r);
       // the held INSERT, found in the process list and killed
       let killed = false;
-      for (let k = 0; k < 50 && !killed; k++) {
+      for (let k = 0; k < 160 && !killed; k++) {
         await new Promise((r) => setTimeout(r, 50));
         // the held statement shows as the trigger's sleep, on a connection executing a prepared statement
-        const rows = await sequelize.query<{ id: number }>("SELECT ID AS id FROM information_schema.PROCESSLIST WHERE COMMAND = 'Execute' AND INFO = 'DO SLEEP(3)' AND ID <> CONNECTION_ID()", { type: QueryTypes.SELECT });
+        const rows = await sequelize.query<{ id: number }>("SELECT ID AS id FROM information_schema.PROCESSLIST WHERE COMMAND = 'Execute' AND INFO = 'DO SLEEP(10)' AND ID <> CONNECTION_ID()", { type: QueryTypes.SELECT });
         for (const r of rows) {
           await sequelize.query(`KILL CONNECTION ${Number(r.id)}`);
           killed = true;
