@@ -20,12 +20,13 @@ const DB_DOWN = /^(ECONNREFUSED|ECONNRESET|EPIPE|ETIMEDOUT|PROTOCOL_CONNECTION_L
 /**
  * A lost database, whether the error came through Sequelize (wrapped, the connector's error as
  * `parent`) or straight from the connector (the batch insert runs on the transaction's own
- * connection, so its errors are not wrapped).
+ * connection, so its errors are not wrapped). Only the connector's own errors count: a reset
+ * socket to the mail or payment service is not the database.
  */
-export function isDbDown(err: unknown): boolean {
+function isDbDown(err: unknown): boolean {
   if (err instanceof ConnectionError || err instanceof TimeoutError) return true;
-  const raw = (err instanceof BaseError ? (err as { parent?: unknown }).parent : err) as { code?: unknown } | null | undefined;
-  return typeof raw?.code === 'string' && DB_DOWN.test(raw.code);
+  const raw = (err instanceof BaseError ? (err as { parent?: unknown }).parent : err) as { name?: unknown; code?: unknown } | null | undefined;
+  return raw?.name === 'SqlError' && typeof raw.code === 'string' && DB_DOWN.test(raw.code);
 }
 
 /**

@@ -138,6 +138,9 @@ export const databaseLookups: EntryLookups = {
   standardizationAt: (titrantId, at, t) => standardizationAt(titrantId, at, t),
 };
 
+/** What picking a same-day calibration needs of each (plain rows: no instances for a batch's hundred). */
+const CALIBRATION_ATTRIBUTES = ['id', 'calibratedAt', 'meterId', 'organizationId'] as const;
+
 const latestFirst = (a: { at: Date; id: number }, b: { at: Date; id: number }) => b.at.getTime() - a.at.getTime() || b.id - a.id;
 
 /**
@@ -155,8 +158,8 @@ export async function batchLookups(inputs: Array<{ titrantId: number; analysedAt
   const [titrants, standardizations, calibrations, users] = await Promise.all([
     rawFind(Titrant, 'x.id IN (?)', [titrantIds], t),
     rawFind(Standardization, 'x.titrant_id IN (?) AND x.accepted = 1 AND x.standardized_at <= ?', [titrantIds, latest], t),
-    sequelize().query<{ id: number; calibratedAt: Date; meterId: string; organizationId: number }>(
-      'SELECT id, calibrated_at AS calibratedAt, meter_id AS meterId, organization_id AS organizationId FROM meter_calibrations WHERE organization_id IN (?) AND passed = 1 AND calibrated_at <= ? AND calibrated_at >= ?',
+    sequelize().query<Pick<MeterCalibration, (typeof CALIBRATION_ATTRIBUTES)[number]>>(
+      `SELECT ${selectList(MeterCalibration, 'x', '', CALIBRATION_ATTRIBUTES)} FROM meter_calibrations x WHERE x.organization_id IN (?) AND x.passed = 1 AND x.calibrated_at <= ? AND x.calibrated_at >= ?`,
       { replacements: [[...new Set(inputs.map((i) => i.performedByOrgId))], latest, earliest], type: QueryTypes.SELECT, transaction: t },
     ),
     new Map<number, Promise<User | null>>(),

@@ -24,11 +24,11 @@ beforeAll(async () => {
   writerToken = await tokenFor(app, demo.analyst);
 });
 
-const write = (i: number) =>
+const write = (i: number, notes = `fault stream ${i}`) =>
   request(app)
     .post('/api/v1/samples')
     .set('Authorization', `Bearer ${writerToken}`)
-    .send({ sampleType: 'grab', pointId: site.point.id, collectedAt: dayjs().subtract(1, 'hour').toISOString(), notes: `fault stream ${i}` });
+    .send({ sampleType: 'grab', pointId: site.point.id, collectedAt: dayjs().subtract(1, 'hour').toISOString(), notes });
 
 describe('MariaDB stopped during a stream of writes', () => {
   it.skipIf(!!process.env.TEST_DB_HOST)('answers 503 while down, recovers by itself, and keeps every write it acknowledged', async () => {
@@ -113,11 +113,7 @@ describe('a connection lost under the batch insert', () => {
     await sequelize.query('DROP TRIGGER IF EXISTS audit_hold_for_fault_test');
     await sequelize.query(`CREATE TRIGGER audit_hold_for_fault_test BEFORE INSERT ON audit_events FOR EACH ROW BEGIN IF NEW.\`after\` LIKE '%${marker}%' THEN DO SLEEP(10); END IF; END`);
     try {
-      const pending = request(app)
-        .post('/api/v1/samples')
-        .set('Authorization', `Bearer ${writerToken}`)
-        .send({ sampleType: 'grab', pointId: site.point.id, collectedAt: dayjs().subtract(1, 'hour').toISOString(), notes: marker })
-        .then((r) => r);
+      const pending = write(0, marker).then((r) => r); // sent now (supertest sends on then)
       // the held INSERT, found in the process list and killed
       let killed = false;
       for (let k = 0; k < 160 && !killed; k++) {

@@ -115,12 +115,10 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
   const s0 = performance.now();
   await Promise.all(Array.from({ length: 10 }, async () => { for (let i = n++; i < single; i = n++) await call(operator, 'POST', '/bench/entries', entry(i)); }));
   const singlePerSecond = single / ((performance.now() - s0) / 1000);
-  // the import route: `count` rows from entry number `from`, in batches over the clients; seconds taken
-  let ids: number[] = [];
-  let sampleIds: number[] = [];
+  // the import route: `count` rows from entry number `from`, in batches over the clients
   const importRows = async (from: number, count: number) => {
-    ids = [];
-    sampleIds = [];
+    const ids: number[] = [];
+    const sampleIds: number[] = [];
     let batch = 0;
     const t0 = performance.now();
     await Promise.all(
@@ -132,13 +130,16 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
         }
       }),
     );
-    return (performance.now() - t0) / 1000;
+    return { perSecond: count / ((performance.now() - t0) / 1000), ids, sampleIds };
   };
   // one untimed run first (the server's JIT warms on this route's code), then three timed runs:
   // the median, as for the raw side; the raw rows are those of the last run
-  await importRows(0, Math.min(rows, 1000));
-  const apiRates: number[] = [];
-  for (let k = 0; k < 3; k++) apiRates.push(rows / (await importRows((k + 1) * rows, rows)));
+  const warmUp = Math.min(rows, 1000);
+  await importRows(0, warmUp);
+  const runs = [];
+  for (let k = 0; k < 3; k++) runs.push(await importRows((k + 1) * rows, rows));
+  const apiRates = runs.map((r) => r.perSecond);
+  const { ids, sampleIds } = runs[runs.length - 1];
   const config = testConfig('titrata_bench');
   const conn = await mariadb.createConnection({ host: '127.0.0.1', port: testDbPort, user: config.DB_USER, password: config.DB_PASSWORD, database: config.DB_NAME });
   try {
@@ -168,7 +169,7 @@ export async function ingestRatio(base: string, token: (email: string) => Promis
       ratio: Math.round((apiRate / rawRate) * 1000) / 1000,
       rawAllRowsPerSecond: Math.round(rawAllRate),
       ratioAllRows: Math.round((apiRate / rawAllRate) * 1000) / 1000,
-      note: `Through POST /bench/entries/import, ${batchSize} entries a request, ${clients} clients, after an untimed run of ${Math.min(rows, 1000)} rows (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone`,
+      note: `Through POST /bench/entries/import, ${batchSize} entries a request, ${clients} clients, after an untimed run of ${warmUp} rows (one entry per request: ${Math.round(singlePerSecond)} rows/s); each API row is a sample, a titration, the engine, qualifiers and audit, the raw rows one batched INSERT of the titrations alone`,
     };
   } finally {
     await conn.end();
